@@ -1,0 +1,40 @@
+"""clinometry: clinoform geometry of carbonate platform margins from seismic.
+
+Data flows one way: read -> section (xarray) -> depth -> picks -> metrics ->
+classification -> result -> reports/batch.  The public API is re-exported
+here by name.
+"""
+
+__version__ = "0.1.0"
+
+from .errors import (  # noqa: F401
+    ClinometryError,
+    ClinometryWarning,
+    DataQualityWarning,
+    FallbackWarning,
+    GeometryError,
+    HorizonFileError,
+    PickingError,
+    PluginError,
+    SegyReadError,
+    ThresholdsError,
+    VelocityError,
+)
+from .section import check_section, make_section  # noqa: F401
+
+__all__ = [
+    "__version__",
+    "ClinometryError",
+    "ClinometryWarning",
+    "DataQualityWarning",
+    "FallbackWarning",
+    "GeometryError",
+    "HorizonFileError",
+    "PickingError",
+    "PluginError",
+    "SegyReadError",
+    "ThresholdsError",
+    "VelocityError",
+    "check_section",
+    "make_section",
+]
