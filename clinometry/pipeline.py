@@ -1,0 +1,518 @@
+"""The pipeline: the one place where the steps are chained.
+
+:func:`analyze` runs read -> velocity model -> pick -> measure -> classify on
+one line and returns a :class:`~clinometry.result.Result`.  :func:`measure`
+does the same for a horizon the interpreter picked already (a
+:class:`~clinometry.picking.picks.Horizon` or a CSV file), so the automatic
+picker is skipped but the break, toe, metrics and family are found the same
+way.
+
+Each step is a plain function of its own module, dispatched through the
+entry-point plugins (``picker=``, ``classifier=``); the pipeline adds only
+the bookkeeping an interpreter needs to trust a result: which velocity model
+was used and whether it was the package default (a fallback), which plugins
+and thresholds ran, with which seed, and every fallback and note the steps
+reported.
+
+The default velocity for a TWT section with no velocity given is recorded
+in the result (``velocity["default_fallback"] = True`` and a line in
+``run["fallbacks"]``) and logged at INFO, without a warning per line, so a
+batch of hundreds of lines does not drown the log.
+"""
+
+from __future__ import annotations
+
+import csv
+import logging
+import math
+import os
+from dataclasses import replace
+from pathlib import Path
+
+import numpy as np
+import xarray as xr
+
+from .errors import ClinometryError, HorizonFileError
+from .picking.picks import Horizon, Picks
+from .result import Result
+from .section import check_section, section_name
+
+__all__ = ["analyze", "analyze_full", "measure", "read_horizon_csv", "HORIZON_MAX_OFFSET_TRACES"]
+
+logger = logging.getLogger(__name__)
+
+#: how far (in median trace spacings) an x/y horizon point may lie from the
+#: nearest trace before it is refused: one spacing (common practice, no source)
+HORIZON_MAX_OFFSET_TRACES = 1.0
+
+
+def _version() -> str:
+    from . import __version__
+
+    return __version__
+
+
+def _source_info(section: xr.DataArray, path) -> dict:
+    attrs = section.attrs
+    src = {
+        "path": str(path) if path is not None else str(attrs.get("source_path", "") or ""),
+        "n_traces": int(section.sizes["trace"]),
+        "n_samples": int(section.sizes["z"]),
+        "domain": attrs["domain"],
+        "units": attrs.get("units"),
+        "sample_interval": attrs.get("sample_interval"),
+        "z_first": float(section["z"].values[0]),
+        "z_last": float(section["z"].values[-1]),
+        "length_m": float(section["distance"].values[-1] - section["distance"].values[0]),
+        "line_label": attrs.get("line_label", ""),
+        "sample_format": attrs.get("sample_format"),
+        "fallbacks": list(attrs.get("fallbacks", []) or []),
+        "dead_traces": [int(t) for t in (attrs.get("dead_traces", []) or [])],
+        "n_nonfinite": int(attrs.get("n_nonfinite", 0) or 0),
+    }
+    for c in ("inline", "crossline"):
+        if c in section.coords:
+            vals = np.unique(section[c].values)
+            if vals.size == 1:
+                src[c] = int(vals[0])
+    return src
+
+
+def _load_section(path_or_section, *, domain, inline, crossline):
+    if isinstance(path_or_section, xr.DataArray):
+        section = check_section(path_or_section)
+        if domain is not None and section.attrs["domain"] != domain:
+            raise ClinometryError(
+                f"{section_name(section)}: domain={domain!r} was given but the section is "
+                f"in {section.attrs['domain']!r}; convert it with clinometry.depth first"
+            )
+        return section, None
+    if not isinstance(path_or_section, (str, os.PathLike)):
+        raise TypeError(f"analyze() takes a SEG-Y path or a section DataArray, got {type(path_or_section).__name__}")
+    from .io import read_section
+
+    path = Path(path_or_section)
+    section = read_section(path, inline=inline, crossline=crossline, domain=domain or "twt")
+    return section, path
+
+
+def _velocity_model(section, *, velocity, velocity_linear, velocity_file):
+    """Velocity model for the section; (model, model dict with fallback flag, fallback text)."""
+    from .depth import DEFAULT_VELOCITY_M_S, velocity_from_options
+
+    domain = section.attrs["domain"]
+    given = not (velocity is None and velocity_linear is None and velocity_file is None)
+    if hasattr(velocity, "depth_m") and hasattr(velocity, "to_dict"):
+        model = velocity  # a velocity model object
+    else:
+        model = velocity_from_options(
+            velocity=velocity,
+            velocity_linear=velocity_linear,
+            velocity_file=velocity_file,
+            domain=domain,
+            section=section,
+        )
+    fallback = None
+    if model is None:
+        vdict = {"model": "none", "reason": "depth-domain section: no conversion needed"}
+    else:
+        vdict = dict(model.to_dict())
+    if domain == "twt" and not given:
+        fallback = (
+            f"no velocity given: constant {DEFAULT_VELOCITY_M_S:g} m/s assumed for time-depth "
+            "conversion; depths, relief and slope angles scale with this guess"
+        )
+        logger.info("%s: %s", section_name(section), fallback)
+    vdict["default_fallback"] = fallback is not None
+    return model, vdict, fallback
+
+
+def _thresholds(thresholds):
+    """(value to pass to classify, source text for the record)."""
+    if thresholds is None:
+        return None, "built-in table (clinometry.classify.thresholds.DEFAULT_THRESHOLDS)"
+    if isinstance(thresholds, (str, os.PathLike)):
+        from .classify.thresholds import load_thresholds
+
+        return load_thresholds(thresholds), str(thresholds)
+    return dict(thresholds), "mapping given by the caller"
+
+
+def _finish(section, path, picks, model, vdict, fallback, *, classifier, thresholds, uncertainty, seed,
+            metrics_plugins, run_extra, notes):
+    from .classify import classify
+    from .metrics import measure as measure_metrics
+
+    table, thresholds_source = _thresholds(thresholds)
+    metrics = measure_metrics(
+        picks, section, velocity=model, metrics=metrics_plugins, uncertainty=uncertainty, seed=seed
+    )
+    classes = tuple(classify(mm, classifier=classifier, thresholds=table) for mm in metrics.margins)
+    fallbacks = list(section.attrs.get("fallbacks", []) or [])
+    if fallback:
+        fallbacks.append(fallback)
+    notes = list(notes) + list(picks.notes)
+    if not picks.margins:
+        notes.append("no margin found on this line: " + ("; ".join(picks.notes) or "the picker gave no reason"))
+    run = {
+        "clinometry_version": _version(),
+        "picker": picks.picker,
+        "picker_parameters": picks.parameters,
+        "classifier": classifier,
+        "thresholds_source": thresholds_source,
+        "thresholds": classes[0].thresholds if classes else (table or {}),
+        "metrics_plugins": list(metrics_plugins) if metrics_plugins is not None else "all installed",
+        "uncertainty": dict(metrics.uncertainty_settings),
+        "seed": int(seed),
+        "fallbacks": fallbacks,
+        "notes": notes,
+        "n_horizons": len(picks.horizons),
+        "pick_notes": list(picks.notes),
+        "cautions": list(CAUTIONS),
+    }
+    run.update(run_extra)
+    return Result(
+        source=_source_info(section, path),
+        velocity=vdict,
+        picks=picks,
+        metrics=metrics,
+        classifications=classes,
+        run=run,
+    )
+
+
+#: the usual cautions recorded with every result (common practice, no source)
+CAUTIONS = (
+    "Seismic interpretation aid only: picks, depths and margin classes carry the uncertainty "
+    "of the velocity model and of the picking, and are no substitute for well control.",
+    "Do not base drilling, injection or storage decisions on these numbers alone; follow local "
+    "regulations and the judgement of licensed professionals.",
+)
+
+
+def analyze_full(
+    path_or_section,
+    *,
+    velocity=None,
+    velocity_linear=None,
+    velocity_file=None,
+    domain=None,
+    inline=None,
+    crossline=None,
+    picker="default",
+    classifier="rules",
+    thresholds=None,
+    uncertainty=True,
+    seed=0,
+    horizons=None,
+    metrics=None,
+    picker_options=None,
+):
+    """Like :func:`analyze`, but also return the section and velocity model.
+
+    Returns
+    -------
+    result : Result
+    section : xarray.DataArray, dims ("trace", "z")
+        The section that was analysed (for plots and horizon tables).
+    velocity_model : object or None
+        The velocity model used (None for a depth section).
+    """
+    section, path = _load_section(path_or_section, domain=domain, inline=inline, crossline=crossline)
+    model, vdict, fallback = _velocity_model(
+        section, velocity=velocity, velocity_linear=velocity_linear, velocity_file=velocity_file
+    )
+    if horizons is not None:
+        horizon = horizons
+        if not isinstance(horizon, Horizon):
+            horizon = read_horizon_csv(horizons, section)
+        picks = _picks_from_horizon(horizon, section, model)
+        run_extra = {"horizon_source": str(horizons) if not isinstance(horizons, Horizon) else "Horizon given by the caller"}
+    else:
+        from .picking import pick
+
+        picks = pick(section, picker=picker, velocity=model, **dict(picker_options or {}))
+        run_extra = {"horizon_source": "automatic"}
+    result = _finish(
+        section, path, picks, model, vdict, fallback,
+        classifier=classifier, thresholds=thresholds, uncertainty=uncertainty, seed=seed,
+        metrics_plugins=metrics, run_extra=run_extra, notes=(),
+    )
+    logger.info("%s: %d margin(s)", section_name(section), result.n_margins)
+    return result, section, model
+
+
+def analyze(
+    path_or_section,
+    *,
+    velocity=None,
+    velocity_linear=None,
+    velocity_file=None,
+    domain=None,
+    inline=None,
+    crossline=None,
+    picker="default",
+    classifier="rules",
+    thresholds=None,
+    uncertainty=True,
+    seed=0,
+    horizons=None,
+) -> Result:
+    """Read, pick, measure and classify one line.
+
+    Parameters
+    ----------
+    path_or_section : str, os.PathLike or xarray.DataArray
+        A SEG-Y file (2D line, or one line of a 3D volume with ``inline=`` /
+        ``crossline=``) or a section with dims ("trace", "z").
+    velocity : float (m/s) or velocity model, optional
+        Constant velocity, or any model from :mod:`clinometry.depth`.
+    velocity_linear : (float, float), optional
+        ``(v0_m_s, k_per_s)`` of a linear velocity v(z) = v0 + k z.
+    velocity_file : str or os.PathLike, optional
+        Velocity table or velocity SEG-Y (see
+        :func:`clinometry.depth.velocity_from_options`).
+    domain : {"twt", "depth"}, optional
+        Domain of the file's z axis (default "twt" for files; a section's
+        own ``domain`` attr otherwise).
+    inline, crossline : int, optional
+        Line of a 3D volume.
+    picker, classifier : str
+        Plugin names (entry-point groups ``clinometry.pickers`` and
+        ``clinometry.classifiers``).
+    thresholds : str, os.PathLike or mapping, optional
+        TOML file or table overriding the classifier thresholds.
+    uncertainty : bool or dict
+        Run the Monte-Carlo P10/P50/P90 (settings dict passed through).
+    seed : int
+        Seed of every random draw.
+    horizons : Horizon, str or os.PathLike, optional
+        The interpreter's own margin horizon (see :func:`measure`); the
+        automatic picker is then skipped.
+
+    Returns
+    -------
+    Result
+        ``margins`` is empty (with a note in ``run["notes"]``) when the line
+        holds no margin.
+
+    Raises
+    ------
+    SegyReadError, GeometryError, VelocityError, PluginError, ThresholdsError, HorizonFileError
+        Bad input; the message names the file.
+
+    See Also
+    --------
+    measure : the same for a horizon picked by the interpreter.
+    clinometry.result.Result.to_dict : the results contract.
+
+    Notes
+    -----
+    The result records the usual cautions (``run["cautions"]``): these
+    numbers support interpretation; they do not replace well control, local
+    regulations or licensed practice for drilling or storage decisions.
+    """
+    return analyze_full(
+        path_or_section,
+        velocity=velocity,
+        velocity_linear=velocity_linear,
+        velocity_file=velocity_file,
+        domain=domain,
+        inline=inline,
+        crossline=crossline,
+        picker=picker,
+        classifier=classifier,
+        thresholds=thresholds,
+        uncertainty=uncertainty,
+        seed=seed,
+        horizons=horizons,
+    )[0]
+
+
+def measure(
+    horizon,
+    section,
+    *,
+    velocity=None,
+    velocity_linear=None,
+    velocity_file=None,
+    classifier="rules",
+    thresholds=None,
+    uncertainty=True,
+    seed=0,
+) -> Result:
+    """Measure and classify an interpreter's own margin horizon.
+
+    Parameters
+    ----------
+    horizon : Horizon, str or os.PathLike
+        A :class:`~clinometry.picking.picks.Horizon`, or a CSV file with
+        columns ``trace`` (0-based index into the section) or ``x, y`` (m),
+        and ``z`` (in the section's units: ms TWT or m depth).  x/y points
+        are matched to the nearest trace (see :func:`read_horizon_csv`).
+    section : xarray.DataArray, dims ("trace", "z"), or SEG-Y path
+    velocity, velocity_linear, velocity_file, classifier, thresholds, uncertainty, seed
+        As for :func:`analyze`.
+
+    Returns
+    -------
+    Result
+        Same contract as :func:`analyze`; ``run["horizon_source"]`` names
+        the horizon.  When no margin can be found on the horizon (no
+        basinward deepening), ``margins`` is empty with the reason in
+        ``run["notes"]``.
+
+    Raises
+    ------
+    HorizonFileError
+        The CSV cannot be read or does not match the section (names the
+        file, row and column).
+    """
+    return analyze_full(
+        section,
+        velocity=velocity,
+        velocity_linear=velocity_linear,
+        velocity_file=velocity_file,
+        classifier=classifier,
+        thresholds=thresholds,
+        uncertainty=uncertainty,
+        seed=seed,
+        horizons=horizon,
+    )[0]
+
+
+def _picks_from_horizon(horizon: Horizon, section, model) -> Picks:
+    """Margin picks on a user horizon with the picking step's margin functions."""
+    from .picking.margins import margins_from_horizon
+
+    horizon = replace(horizon, role="user") if horizon.role != "user" else horizon
+    margins, notes = margins_from_horizon(horizon, section, velocity=model)
+    return Picks(
+        horizons=(horizon,),
+        margins=tuple(margins),
+        picker="user_horizon",
+        parameters={"horizon_id": horizon.id, "n_points": len(horizon)},
+        notes=tuple(notes),
+    )
+
+
+# ------------------------------------------------------------- horizon CSV
+def _float_cell(text, *, name, row, column):
+    t = (text or "").strip()
+    if t == "":
+        return None
+    try:
+        v = float(t)
+    except ValueError:
+        raise HorizonFileError(
+            f"{name}: row {row}, column {column!r}: {t!r} is not a number; "
+            "write plain decimal numbers (empty cells are skipped)"
+        ) from None
+    if not math.isfinite(v):
+        raise HorizonFileError(f"{name}: row {row}, column {column!r}: value {t!r} is not finite")
+    return v
+
+
+def read_horizon_csv(path, section, *, max_offset_m=None, horizon_id=0) -> Horizon:
+    """Read an interpreter's horizon (CSV) and match it to the section's traces.
+
+    Parameters
+    ----------
+    path : str or os.PathLike
+        CSV with a header row.  Columns: ``trace`` (0-based index into the
+        section) *or* ``x`` and ``y`` (m, same coordinate system as the
+        section), and ``z`` in the section's units (ms TWT or m depth,
+        positive down).  Rows with an empty ``z`` are skipped (gaps);
+        other columns are ignored.
+    section : xarray.DataArray, dims ("trace", "z")
+    max_offset_m : float, m, optional
+        Largest distance from an x/y point to its nearest trace.  Default:
+        :data:`HORIZON_MAX_OFFSET_TRACES` median trace spacings.
+    horizon_id : int
+
+    Returns
+    -------
+    Horizon
+        ``role="user"``, quality 1, sorted by trace; points that fall on the
+        same trace are averaged.
+
+    Raises
+    ------
+    HorizonFileError
+        Missing file or columns, a cell that is not a number, a trace index
+        outside the section, an x/y point too far from the line, a z outside
+        the section's z range, or fewer than 3 points.  The message names
+        the file, and the row and column where one is at fault.
+    """
+    path = Path(path)
+    name = path.name
+    try:
+        text = path.read_text(encoding="utf-8-sig")
+    except FileNotFoundError as err:
+        raise HorizonFileError(f"{name}: horizon file not found ({path})") from err
+    except (OSError, UnicodeDecodeError) as err:
+        raise HorizonFileError(f"{name}: cannot read the horizon file: {err}") from err
+    reader = csv.DictReader(text.splitlines())
+    cols = [c.strip().lower() for c in (reader.fieldnames or [])]
+    if not cols:
+        raise HorizonFileError(f"{name}: empty file; expected a header row with 'trace' or 'x,y', and 'z'")
+    reader.fieldnames = cols
+    if "z" not in cols:
+        raise HorizonFileError(f"{name}: no column 'z' (columns seen: {', '.join(cols)}); add the pick in section units")
+    by_trace = "trace" in cols
+    if not by_trace and not ("x" in cols and "y" in cols):
+        raise HorizonFileError(
+            f"{name}: needs a column 'trace' or both 'x' and 'y' (columns seen: {', '.join(cols)})"
+        )
+    n_trace = int(section.sizes["trace"])
+    zvals = section["z"].values
+    zmin, zmax = float(zvals[0]), float(zvals[-1])
+    unit = section.attrs.get("units", "")
+    xs = section["x"].values.astype(float)
+    ys = section["y"].values.astype(float)
+    if max_offset_m is None:
+        steps = np.hypot(np.diff(xs), np.diff(ys))
+        spacing = float(np.median(steps)) if steps.size else 0.0
+        max_offset_m = HORIZON_MAX_OFFSET_TRACES * spacing
+    traces, zs = [], []
+    for i, rec in enumerate(reader, start=2):  # row 1 is the header
+        z = _float_cell(rec.get("z"), name=name, row=i, column="z")
+        if z is None:
+            continue
+        if not zmin <= z <= zmax:
+            raise HorizonFileError(
+                f"{name}: row {i}, column 'z': {z:g} {unit} is outside the section's z range "
+                f"{zmin:g}..{zmax:g} {unit}; is the horizon in the same domain (TWT ms or depth m)?"
+            )
+        if by_trace:
+            t = _float_cell(rec.get("trace"), name=name, row=i, column="trace")
+            if t is None or t != int(t) or not 0 <= t < n_trace:
+                raise HorizonFileError(
+                    f"{name}: row {i}, column 'trace': {rec.get('trace')!r} is not a trace index "
+                    f"0..{n_trace - 1} of this section"
+                )
+            t = int(t)
+        else:
+            x = _float_cell(rec.get("x"), name=name, row=i, column="x")
+            y = _float_cell(rec.get("y"), name=name, row=i, column="y")
+            if x is None or y is None:
+                raise HorizonFileError(f"{name}: row {i}: 'x' and 'y' are both needed when 'z' is given")
+            d = np.hypot(xs - x, ys - y)
+            t = int(np.argmin(d))
+            if d[t] > max_offset_m:
+                raise HorizonFileError(
+                    f"{name}: row {i}, columns 'x','y': point ({x:g}, {y:g}) is {d[t]:.1f} m from the "
+                    f"nearest trace ({t}), more than the {max_offset_m:.1f} m allowed; check the "
+                    "coordinate system or pass max_offset_m="
+                )
+        traces.append(t)
+        zs.append(z)
+    if len(set(traces)) < 3:
+        raise HorizonFileError(f"{name}: only {len(set(traces))} distinct traces with a z value; a margin needs at least 3")
+    traces = np.asarray(traces)
+    zs = np.asarray(zs)
+    uniq, inv = np.unique(traces, return_inverse=True)
+    zmean = np.bincount(inv, weights=zs) / np.bincount(inv)
+    if uniq.size < traces.size:
+        logger.info("%s: %d points fell on shared traces and were averaged", name, traces.size - uniq.size)
+    return Horizon(id=horizon_id, role="user", trace=uniq, z=zmean, quality=np.ones(uniq.size), polarity="unknown")
