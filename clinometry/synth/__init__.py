@@ -1,1 +1,27 @@
-"""(being built)"""
+"""Forward model of carbonate platform margins and synthetic seismic with ground truth.
+
+Grow a margin through time (:mod:`~clinometry.synth.growth`, production law of
+Bosscher & Schlager 1992, reworking, angle-of-repose-limited deposition),
+render it as seismic (:mod:`~clinometry.synth.seismic`, convolution with a
+Ricker wavelet), measure its true break, toe, slope and trajectory
+(:mod:`~clinometry.synth.truth`) and write SEG-Y plus a truth JSON
+(:mod:`~clinometry.synth.write`).
+"""
+
+from .growth import GrowthParameters, Stratigraphy, grow, production_rate
+from .lines import make_line
+from .scenarios import SCENARIOS, Scenario, get_scenario
+from .seismic import SynthVelocity, ricker
+
+__all__ = [
+    "GrowthParameters",
+    "Stratigraphy",
+    "grow",
+    "production_rate",
+    "make_line",
+    "SCENARIOS",
+    "Scenario",
+    "get_scenario",
+    "SynthVelocity",
+    "ricker",
+]

@@ -1,0 +1,283 @@
+"""Synthetic seismic lines with exact ground truth: :func:`make_line`.
+
+A scenario is grown (:mod:`clinometry.synth.growth`), placed below a datum
+(final sea level at ``datum_depth_m`` below the z origin, the space above
+filled by a flat-layered overburden), rendered to seismic
+(:mod:`clinometry.synth.seismic`) and measured
+(:mod:`clinometry.synth.truth`).  The truth uses the same key names as the
+analysis result JSON, per margin: ``direction`` ("+" when basinward is
+towards increasing trace index), ``family``, ``break`` and ``toe`` (``trace``,
+``distance_m``, ``depth_m``, ``x``, ``y``, ``z`` in the section's z units),
+``relief_m``, ``slope_max_deg``, ``slope_mean_deg``, ``clinoforms`` (oldest to
+youngest) and ``trajectory`` (``angle_deg``, ``class``).
+"""
+
+from __future__ import annotations
+
+import dataclasses
+import logging
+
+import numpy as np
+
+from ..errors import GeometryError
+from ..section import make_section
+from .growth import grow
+from .scenarios import get_scenario
+from .seismic import SynthVelocity, bandlimited_noise, render, ricker
+from .truth import BASE_LENGTH_M, SMOOTHING_M, TRAJECTORY_FLAT_DEG, profile_margin, trajectory
+
+__all__ = ["make_line", "TRUTH_SCHEMA_VERSION", "line_geometry", "margins_truth"]
+
+logger = logging.getLogger(__name__)
+
+TRUTH_SCHEMA_VERSION = 1
+#: first clinoform reported, as a fraction of the growth steps (project choice)
+_CLINO_START_FRACTION = 0.2
+#: number of clinoforms reported per margin (project choice)
+_N_CLINOFORMS = 9
+
+
+def line_geometry(n_traces, *, trace_spacing_m, azimuth_deg, origin_xy_m):
+    """Trace coordinates of a straight line with an azimuth (deg from grid north).
+
+    Examples
+    --------
+    >>> x, y = line_geometry(3, trace_spacing_m=10.0, azimuth_deg=90.0, origin_xy_m=(0.0, 0.0))
+    >>> np.round(x, 6).tolist(), np.round(y, 6).tolist()
+    ([0.0, 10.0, 20.0], [0.0, 0.0, 0.0])
+    """
+    d = np.arange(n_traces) * float(trace_spacing_m)
+    a = np.deg2rad(azimuth_deg)
+    return origin_xy_m[0] + d * np.sin(a), origin_xy_m[1] + d * np.cos(a)
+
+
+def _point(i, depth_m, *, distance, x, y, to_z):
+    return {"trace": int(i), "distance_m": float(distance[i]), "depth_m": float(depth_m),
+            "x": float(x[i]), "y": float(y[i]), "z": float(to_z(depth_m))}
+
+
+def margins_truth(depths, *, sides, distance, x, y, to_z, family, n_steps):
+    """Truth of every margin of a grown section.
+
+    Parameters
+    ----------
+    depths : ndarray, shape (n_steps + 1, n_trace), m
+        Depth of each stratal surface below the z origin, positive down.
+    sides : {"+", "-", "+-"}
+        Directions in which the platform exported sediment.
+    distance, x, y : ndarray, shape (n_trace,), m
+    to_z : callable
+        Depth (m) -> z in the section's units.
+    family : str or None
+    n_steps : int
+
+    Returns
+    -------
+    list of dict
+        One entry per margin found (see the module docstring); empty when the
+        final surface has no margin.
+    """
+    final = depths[-1]
+    n = final.size
+    if sides == "+-":
+        top = np.flatnonzero(final <= final.min() + 2.0)
+        centre = int(round(0.5 * (top[0] + top[-1])))
+        segs = {"-": np.arange(centre, -1, -1), "+": np.arange(centre, n)}
+    elif sides == "+":
+        segs = {"+": np.arange(n)}
+    else:
+        segs = {"-": np.arange(n - 1, -1, -1)}
+    out = []
+    steps = np.unique(np.linspace(int(_CLINO_START_FRACTION * n_steps), n_steps,
+                                  _N_CLINOFORMS).astype(int))
+    for direction, idx in segs.items():
+        s = np.abs(distance[idx] - distance[idx[0]])
+        m = profile_margin(s, final[idx])
+        if m is None:
+            continue
+        pt = dict(distance=distance, x=x, y=y, to_z=to_z)
+        ib, it = idx[m["break"]], idx[m["toe"]]
+        clinos = []
+        for k in steps:
+            mk = profile_margin(s, depths[k][idx])
+            if mk is None:
+                continue
+            kb, kt = idx[mk["break"]], idx[mk["toe"]]
+            clinos.append({"step": int(k),
+                           "break": _point(kb, depths[k][kb], **pt),
+                           "toe": _point(kt, depths[k][kt], **pt),
+                           "relief_m": mk["relief_m"], "slope_max_deg": mk["slope_max_deg"],
+                           "slope_mean_deg": mk["slope_mean_deg"]})
+        traj = None
+        if len(clinos) >= 3:
+            bs = np.array([abs(c["break"]["distance_m"] - distance[idx[0]]) for c in clinos])
+            bd = np.array([c["break"]["depth_m"] for c in clinos])
+            traj = trajectory(bs, bd)
+        top_idx = idx[: m["break"] + 1]
+        out.append({
+            "direction": direction,
+            "family": family,
+            "platform_top": {"depth_m": float(np.median(final[top_idx])),
+                             "trace_from": int(min(top_idx[0], top_idx[-1])),
+                             "trace_to": int(max(top_idx[0], top_idx[-1]))},
+            "break": _point(ib, final[ib], **pt),
+            "toe": _point(it, final[it], **pt),
+            "steepest": _point(idx[m["steepest"]], final[idx[m["steepest"]]], **pt),
+            "relief_m": m["relief_m"],
+            "slope_max_deg": m["slope_max_deg"],
+            "slope_mean_deg": m["slope_mean_deg"],
+            "clinoforms": clinos,
+            "trajectory": traj,
+        })
+    return out
+
+
+def make_line(scenario, *, snr=None, seed=0, peak_hz=None, velocity_m_s=None,
+              velocity_k_per_s=None, domain="twt", dt_ms=None, dz_m=None, n_samples=None,
+              delay_ms=None, trace_spacing_m=None, azimuth_deg=None, polarity_reversed=False,
+              gain_drift_fraction=0.0, dead_traces=(), noise=True):
+    """Grow a scenario and render it as a seismic section with its ground truth.
+
+    Parameters
+    ----------
+    scenario : str or Scenario
+        Name in :data:`~clinometry.synth.SCENARIOS` or a scenario object.
+    snr : float, optional
+        Signal-to-noise ratio, RMS(noise-free section) / RMS(noise) over live
+        traces; default the scenario's.  ``noise=False`` switches noise off.
+    seed : int
+        Seeds impedance variation and noise (the geometry is deterministic).
+    peak_hz : float, Hz, optional
+        Ricker peak frequency (typically 15-40 Hz).
+    velocity_m_s, velocity_k_per_s : float, optional
+        Time-depth law ``v(z) = v0 + k z`` (m/s, 1/s).
+    domain : {"twt", "depth"}
+    dt_ms, dz_m : float, optional
+        Sample interval in the twt (ms) or depth (m) domain.
+    n_samples : int, optional
+    delay_ms : float, optional
+        First sample (ms, or m in the depth domain); a multiple of the
+        sample interval is not required but must be an integer for SEG-Y.
+    trace_spacing_m : float, m, optional
+        Changes the growth grid too.
+    azimuth_deg : float, degrees from grid north, optional
+    polarity_reversed : bool
+        Flip the sign (SEG reverse polarity).
+    gain_drift_fraction : float
+        Linear gain drift along the line: traces scaled from
+        ``1 - g/2`` to ``1 + g/2``.
+    dead_traces : sequence of int
+        Traces set to zero (listed in attrs ``dead_traces``).
+    noise : bool
+
+    Returns
+    -------
+    section : xarray.DataArray, dims ("trace", "z")
+        Built with :func:`clinometry.section.make_section`.
+    truth : dict
+        Ground truth (JSON-ready), see the module docstring.
+
+    Raises
+    ------
+    GeometryError
+        Unknown scenario or domain, or options out of range.
+
+    Examples
+    --------
+    >>> sec, truth = make_line("rimmed_shelf", n_samples=50)
+    >>> sec.dims, truth["margins"][0]["direction"]
+    (('trace', 'z'), '+')
+    """
+    sc = get_scenario(scenario)
+    if domain not in ("twt", "depth"):
+        raise GeometryError(f"domain must be 'twt' or 'depth', got {domain!r}")
+    g = sc.growth
+    if trace_spacing_m is not None:
+        g = dataclasses.replace(g, dx_m=float(trace_spacing_m))
+    vel = SynthVelocity(velocity_m_s or sc.velocity_m_s,
+                        sc.velocity_k_per_s if velocity_k_per_s is None else velocity_k_per_s)
+    peak = float(peak_hz or sc.peak_hz)
+    if not (1.0 <= peak <= 200.0):
+        raise GeometryError(f"peak_hz must be within 1-200 Hz, got {peak}")
+    snr = sc.snr if snr is None else snr
+    if snr is not None and snr <= 0:
+        raise GeometryError(f"snr must be > 0, got {snr}")
+    n_z = int(n_samples or sc.n_samples)
+    dz = float((dt_ms or sc.dt_ms) if domain == "twt" else (dz_m or sc.dz_m))
+    delay = float(sc.delay_ms if delay_ms is None else delay_ms)
+    z_out = delay + np.arange(n_z) * dz
+
+    strat = grow(g)
+    depths = strat.depth_below_m(sc.datum_depth_m)
+    facies = strat.facies
+    sides = g.sides
+    if sc.flip:
+        depths, facies = depths[:, ::-1], facies[:, ::-1]
+        sides = {"+": "-", "-": "+", "+-": "+-"}[sides]
+    n_tr = depths.shape[1]
+    x, y = line_geometry(n_tr, trace_spacing_m=g.dx_m, azimuth_deg=sc.azimuth_deg if azimuth_deg is None else azimuth_deg,
+                         origin_xy_m=sc.origin_xy_m)
+    distance = np.arange(n_tr) * g.dx_m
+    rng = np.random.default_rng(seed)
+    amp = render(depths, facies, z_out=z_out, domain=domain, velocity=vel, peak_hz=peak, rng=rng)
+    if gain_drift_fraction:
+        amp *= (1.0 + gain_drift_fraction * np.linspace(-0.5, 0.5, n_tr)).astype(np.float32)[:, None]
+    live = np.ones(n_tr, bool)
+    dead = sorted({int(t) for t in dead_traces})
+    if any(t < 0 or t >= n_tr for t in dead):
+        raise GeometryError(f"dead_traces must be within 0..{n_tr - 1}, got {dead}")
+    live[dead] = False
+    if noise and snr is not None:
+        if domain == "twt":
+            dt_s = dz / 1000.0
+        else:
+            dt_s = 2.0 * dz / (vel.v0_m_s + vel.k_per_s * float(np.median(z_out)))
+        half = int(np.ceil(1.5 / peak / dt_s))
+        w = ricker(np.arange(-half, half + 1) * dt_s, peak_hz=peak)
+        nz = bandlimited_noise(amp.shape, wavelet=w, rng=rng)
+        rms_s = float(np.sqrt(np.mean(amp[live].astype(np.float64) ** 2)))
+        rms_n = float(np.sqrt(np.mean(nz[live] ** 2)))
+        amp = (amp + nz * (rms_s / (snr * rms_n))).astype(np.float32)
+    if polarity_reversed:
+        amp = -amp
+    amp[~live] = 0.0
+
+    to_z = vel.twt_ms if domain == "twt" else (lambda d: np.asarray(d, dtype=float))
+    margins = margins_truth(depths, sides=sides, distance=distance, x=x, y=y,
+                            to_z=lambda d: float(to_z(d)), family=sc.family, n_steps=g.n_steps)
+    cdp = sc.first_cdp + np.arange(n_tr)
+    attrs = {"sample_format": "ieee", "text_header": "", "source_path": "",
+             "dead_traces": dead, "synthetic_scenario": sc.name, "seed": int(seed)}
+    section = make_section(amp, z=z_out, domain=domain, x=x, y=y, distance=distance, cdp=cdp,
+                           attrs=attrs)
+    truth = {
+        "truth_schema_version": TRUTH_SCHEMA_VERSION,
+        "scenario": sc.name,
+        "description": sc.description,
+        "seed": int(seed),
+        "domain": domain,
+        "units": "ms" if domain == "twt" else "m",
+        "n_traces": int(n_tr),
+        "n_samples": int(n_z),
+        "sample_interval": dz,
+        "delay": delay,
+        "trace_spacing_m": float(g.dx_m),
+        "velocity": vel.to_dict(),
+        "wavelet": {"type": "ricker", "peak_hz": peak, "polarity": "reverse" if polarity_reversed else "normal"},
+        "snr": (float(snr) if (noise and snr is not None) else None),
+        "snr_definition": "RMS(noise-free section) / RMS(noise) over live traces",
+        "gain_drift_fraction": float(gain_drift_fraction),
+        "dead_traces": dead,
+        "datum_depth_m": float(sc.datum_depth_m),
+        "definitions": {"smoothing_m": SMOOTHING_M, "base_length_m": BASE_LENGTH_M,
+                        "trajectory_flat_tolerance_deg": TRAJECTORY_FLAT_DEG,
+                        "break": "max convex-up curvature between platform top and steepest point",
+                        "toe": "max concave-up curvature between steepest point and basin floor",
+                        "depth_m": "below the z origin (time zero), positive down"},
+        "expected_family": sc.family,
+        "expected_trajectory": sc.trajectory,
+        "growth": dataclasses.asdict(g),
+        "margins": margins,
+    }
+    logger.info("synthetic line %s: %d traces x %d samples, %d margin(s)", sc.name, n_tr, n_z, len(margins))
+    return section, truth

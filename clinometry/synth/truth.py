@@ -1,0 +1,153 @@
+"""Ground truth of a grown margin: shelf break, toe, slope, relief, trajectory.
+
+Definitions (geometric, on a margin profile in depth)
+-----------------------------------------------------
+The *margin profile* is a stratal surface, depth (m, positive down) against
+distance (m) measured basinward.  For the final margin it is the youngest
+surface of the grown platform (the top before burial); each clinoform uses
+its own surface.  The profile is smoothed with a Gaussian of standard
+deviation ``smoothing_m`` (default :data:`SMOOTHING_M`) before derivatives
+are taken.
+
+* steepest point: maximum of the smoothed basinward dip;
+* **shelf break**: maximum of convex-up curvature (largest ``d''(s)`` of depth
+  ``d`` against basinward distance ``s``) between the landward end of the
+  profile and the steepest point;
+* **toe of slope**: maximum of concave-up curvature (most negative
+  ``d''(s)``) between the steepest point and the basinward end;
+* ``relief_m`` = toe depth - break depth (unsmoothed profile);
+* ``slope_max_deg``: largest dip of the unsmoothed profile measured as a
+  secant over a base length ``base_length_m`` (default
+  :data:`BASE_LENGTH_M`) between break and toe;
+* ``slope_mean_deg`` = atan(relief / horizontal break-to-toe distance);
+* shelf-break trajectory: least-squares line through the breaks of the
+  clinoforms (oldest to youngest) in (basinward distance, depth);
+  ``angle_deg`` = atan(-d depth / d distance) (positive: the break rises as
+  it moves basinward).  Class ``ascending`` if ``angle_deg >``
+  :data:`TRAJECTORY_FLAT_DEG`, ``descending`` if ``< -TRAJECTORY_FLAT_DEG``,
+  else ``flat``.
+
+These are the usual words of clinoform and trajectory analysis (e.g. [1]_,
+[2]_); the numeric smoothing, base length and flat tolerance are choices of
+this project, not published thresholds.
+
+References
+----------
+.. [1] Helland-Hansen, W. & Hampson, G. J. (2009). Trajectory analysis:
+   concepts and applications. Basin Research 21, 454-483. (from memory)
+.. [2] Schlager, W. (2005). Carbonate Sedimentology and Sequence
+   Stratigraphy. SEPM Concepts in Sedimentology and Paleontology 8.
+   (from memory)
+"""
+
+from __future__ import annotations
+
+import numpy as np
+from scipy.ndimage import gaussian_filter1d
+
+__all__ = [
+    "SMOOTHING_M",
+    "BASE_LENGTH_M",
+    "TRAJECTORY_FLAT_DEG",
+    "MIN_RELIEF_M",
+    "profile_margin",
+    "trajectory",
+]
+
+#: Gaussian smoothing (standard deviation) before curvature, m (project choice)
+SMOOTHING_M = 60.0
+#: base length of the secant used for slope_max_deg, m (project choice)
+BASE_LENGTH_M = 150.0
+#: trajectory angles within +/- this are "flat", degrees (project choice)
+TRAJECTORY_FLAT_DEG = 0.5
+#: a profile with less break-to-toe relief has no margin, m (project choice)
+MIN_RELIEF_M = 10.0
+
+
+def profile_margin(distance_m, depth_m, *, smoothing_m=SMOOTHING_M, base_length_m=BASE_LENGTH_M,
+                   min_relief_m=MIN_RELIEF_M):
+    """Break, toe, slope and relief of one margin profile.
+
+    Parameters
+    ----------
+    distance_m : array_like, shape (n,), m
+        Basinward distance, increasing, regular spacing.
+    depth_m : array_like, shape (n,), m
+        Depth of the surface, positive down.
+    smoothing_m, base_length_m, min_relief_m : float, m
+        See the module docstring.
+
+    Returns
+    -------
+    dict or None
+        ``{"break": i, "toe": j, "steepest": k, "relief_m", "slope_max_deg",
+        "slope_mean_deg"}`` with indices into the profile, or None when the
+        profile has no margin (relief below ``min_relief_m``).
+
+    Examples
+    --------
+    >>> s = np.arange(0.0, 2000.0, 10.0)
+    >>> d = np.clip((s - 500.0) * np.tan(np.radians(20.0)), 0.0, 300.0)
+    >>> m = profile_margin(s, d)
+    >>> float(s[m["break"]]), float(s[m["toe"]]), round(m["slope_max_deg"], 1)
+    (500.0, 1320.0, 20.0)
+    """
+    s = np.asarray(distance_m, dtype=np.float64)
+    d = np.asarray(depth_m, dtype=np.float64)
+    ds = float(s[1] - s[0])
+    ds_ = gaussian_filter1d(d, smoothing_m / ds, mode="nearest")
+    dip = np.gradient(ds_, ds)
+    curv = np.gradient(dip, ds)
+    k = int(np.argmax(dip))
+    if dip[k] <= 0:
+        return None
+    i = int(np.argmax(curv[: k + 1]))
+    j = k + int(np.argmin(curv[k:]))
+    relief = float(d[j] - d[i])
+    if relief < min_relief_m or j <= i:
+        return None
+    half = max(1, int(round(0.5 * base_length_m / ds)))
+    lo, hi = max(i, half), min(j, d.size - 1 - half)
+    if hi >= lo:
+        idx = np.arange(lo, hi + 1)
+        sec = (d[idx + half] - d[idx - half]) / (s[idx + half] - s[idx - half])
+        slope_max = float(np.degrees(np.arctan(sec.max())))
+    else:  # margin narrower than the base length: one secant break-to-toe
+        slope_max = float(np.degrees(np.arctan(relief / (s[j] - s[i]))))
+    slope_mean = float(np.degrees(np.arctan(relief / (s[j] - s[i]))))
+    return {"break": i, "toe": j, "steepest": k, "relief_m": relief,
+            "slope_max_deg": slope_max, "slope_mean_deg": slope_mean}
+
+
+def trajectory(distance_m, depth_m, *, flat_deg=TRAJECTORY_FLAT_DEG):
+    """Shelf-break trajectory through break points (oldest to youngest).
+
+    Parameters
+    ----------
+    distance_m, depth_m : array_like, shape (n,), m
+        Basinward distance and depth (positive down) of the breaks.
+    flat_deg : float, degrees
+        Tolerance of the flat class.
+
+    Returns
+    -------
+    dict or None
+        ``{"angle_deg", "class", "progradation_m", "aggradation_m",
+        "n_points"}``; None with fewer than 3 points or no progradation.
+
+    Examples
+    --------
+    >>> t = trajectory([0.0, 100.0, 200.0], [30.0, 25.0, 20.0])
+    >>> round(t["angle_deg"], 2), t["class"]
+    (2.86, 'ascending')
+    """
+    s = np.asarray(distance_m, dtype=np.float64)
+    d = np.asarray(depth_m, dtype=np.float64)
+    if s.size < 3 or np.ptp(s) <= 0:
+        return None
+    slope = np.polyfit(s, d, 1)[0]
+    angle = float(np.degrees(np.arctan(-slope)))
+    cls = "ascending" if angle > flat_deg else "descending" if angle < -flat_deg else "flat"
+    return {"angle_deg": angle, "class": cls, "flat_tolerance_deg": flat_deg,
+            "progradation_m": float(s[-1] - s[0]), "aggradation_m": float(d[0] - d[-1]),
+            "n_points": int(s.size)}
