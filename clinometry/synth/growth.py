@@ -222,9 +222,10 @@ def production_rate(water_depth_m, *, gmax_m_per_kyr, surface_light, saturating_
 
     Examples
     --------
-    >>> round(float(production_rate(0.0, gmax_m_per_kyr=1.0, surface_light=2000.0,
-    ...       saturating_light=250.0, extinction_per_m=0.1)), 6)
-    0.999999
+    >>> g = production_rate([-1.0, 0.5, 100.0], gmax_m_per_kyr=1.0, surface_light=2000.0,
+    ...                     saturating_light=250.0, extinction_per_m=0.1)
+    >>> np.round(g, 4).tolist()
+    [0.0, 1.0, 0.0004]
     """
     w = np.asarray(water_depth_m, dtype=np.float64)
     g = gmax_m_per_kyr * np.tanh(surface_light * np.exp(-extinction_per_m * np.maximum(w, 0.0))
