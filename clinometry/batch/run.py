@@ -1,0 +1,314 @@
+"""Run a batch: a local process pool or an existing Dask cluster, then the tables.
+
+:func:`run_batch` plans the tasks (:func:`clinometry.batch.tasks.plan_tasks`),
+skips the complete ones when resuming, and runs :func:`run_task` on each of
+the others -- in this process for one worker, in a
+:class:`concurrent.futures.ProcessPoolExecutor` (``spawn`` start method, so
+the same code runs on Linux, macOS and Windows) for several, or on a
+``dask.distributed`` cluster given by its scheduler address.  The task
+function, its options and its seed are the same on every path, so the
+per-line files are the same whichever way they were computed.
+
+When the tasks are done, the tables are rebuilt from what is on disk: the
+margins table from every task's result JSON, the errors table from the
+records of this run (plus inputs that named nothing).  A resumed run thus
+neither loses nor duplicates rows.  Then the summary figure, the map figure
+(3D volumes only) and the review page are written.  Every file is written
+atomically.
+"""
+
+from __future__ import annotations
+
+import json
+import logging
+import multiprocessing
+import os
+import sys
+from concurrent.futures import ProcessPoolExecutor, as_completed
+from dataclasses import dataclass, field
+from pathlib import Path
+
+from ..errors import ClinometryError
+from ..report.files import (
+    margin_rows,
+    write_errors_csv,
+    write_margins_csv,
+    write_margins_parquet,
+)
+from .tasks import TaskOptions, is_complete, output_names, plan_tasks, run_task
+
+__all__ = ["BatchSummary", "run_batch", "collect_tables"]
+
+logger = logging.getLogger(__name__)
+
+
+@dataclass(frozen=True)
+class BatchSummary:
+    """What a batch run did.
+
+    Attributes
+    ----------
+    out_dir : str
+    n_tasks : int
+        Lines planned (2D files and lines of 3D volumes).
+    n_ok, n_failed, n_skipped : int
+        Lines analysed now, failed now, and skipped as complete (resume).
+    n_problems : int
+        Inputs that could not become tasks (missing, unreadable geometry).
+    n_margins : int
+        Rows of the margins table.
+    files : dict
+        Name -> path of the run-level outputs written.
+    records : tuple of dict
+        One record per line (see :func:`clinometry.batch.tasks.run_task`).
+    """
+
+    out_dir: str
+    n_tasks: int
+    n_ok: int
+    n_failed: int
+    n_skipped: int
+    n_problems: int
+    n_margins: int
+    files: dict = field(default_factory=dict)
+    records: tuple = ()
+
+    @property
+    def exit_code(self) -> int:
+        """0 all lines done, 1 some failed, 2 nothing could run."""
+        done = self.n_ok + self.n_skipped
+        if done == 0:
+            return 2
+        return 1 if (self.n_failed or self.n_problems) else 0
+
+
+def _progress(total, quiet):
+    from tqdm.auto import tqdm
+
+    return tqdm(total=total, unit="line", desc="clinometry batch", file=sys.stderr,
+                disable=True if quiet else None, dynamic_ncols=True)
+
+
+def _iter_local(tasks, options, workers):
+    if workers <= 1:
+        for t in tasks:
+            yield run_task(t, options)
+        return
+    ctx = multiprocessing.get_context("spawn")
+    with ProcessPoolExecutor(max_workers=workers, mp_context=ctx) as pool:
+        futures = [pool.submit(run_task, t, options) for t in tasks]
+        for fut in as_completed(futures):
+            yield fut.result()
+
+
+def _iter_dask(tasks, options, scheduler):
+    try:
+        from distributed import Client, as_completed as dask_completed
+    except ImportError as err:
+        raise ClinometryError(
+            "--scheduler needs dask.distributed; install it with pip install 'clinometry[dask]'"
+        ) from err
+    try:
+        client = Client(scheduler, timeout="20s", set_as_default=False)
+    except OSError as err:
+        raise ClinometryError(f"cannot reach the Dask scheduler at {scheduler}: {err}; check the address") from err
+    try:
+        futures = client.map(run_task, tasks, options=options, pure=False)
+        for fut in dask_completed(futures):
+            yield fut.result()
+    finally:
+        client.close()
+
+
+def collect_tables(tasks, out_dir, *, plot=True):
+    """Margin rows and per-line entries rebuilt from the result JSONs on disk.
+
+    Parameters
+    ----------
+    tasks : sequence of Task
+    out_dir : str or os.PathLike
+    plot : bool
+
+    Returns
+    -------
+    margins : list of dict
+        Rows of the margins table, in task order, each with ``json``
+        (relative link).
+    lines : list of dict
+        Per task: ``stem, file, line, status, json, png, csv, n_margins``
+        (``status`` "ok" when its JSON could be read).
+    cautions : list of str
+        The cautions recorded in the results (each once).
+    """
+    out = Path(out_dir)
+    margins, lines, cautions = [], [], []
+    for t in tasks:
+        names = output_names(t.stem, plot=plot)
+        entry = {"stem": t.stem, "file": os.path.basename(t.path), "line": t.label, "status": "failed",
+                 "json": None, "png": None, "csv": None, "n_margins": 0, "x": None, "y": None}
+        try:
+            d = json.loads((out / names["json"]).read_text(encoding="utf-8"))
+        except (OSError, ValueError):
+            lines.append(entry)
+            continue
+        rows = margin_rows(d, file=os.path.basename(t.path), line=t.label, stem=t.stem)
+        for r in rows:
+            r["json"] = names["json"]
+        margins.extend(rows)
+        for c in (d.get("run") or {}).get("cautions") or []:
+            if c not in cautions:
+                cautions.append(c)
+        entry.update(status="ok", json=names["json"], n_margins=len(rows))
+        if names["png"] and (out / names["png"]).is_file():
+            entry["png"] = names["png"]
+        if (out / names["csv"]).is_file():
+            entry["csv"] = names["csv"]
+        lines.append(entry)
+    return margins, lines, cautions
+
+
+def run_batch(
+    paths,
+    out_dir,
+    *,
+    workers=None,
+    scheduler=None,
+    resume=False,
+    inlines=None,
+    crosslines=None,
+    velocity=None,
+    velocity_linear=None,
+    velocity_file=None,
+    domain=None,
+    picker="default",
+    classifier="rules",
+    thresholds=None,
+    uncertainty=True,
+    seed=0,
+    plot=True,
+    quiet=False,
+    title="clinometry batch review",
+) -> BatchSummary:
+    """Analyse many lines and write per-line files, tables, figures and the review page.
+
+    Parameters
+    ----------
+    paths : sequence of str or os.PathLike
+        SEG-Y files, folders and glob patterns.
+    out_dir : str or os.PathLike
+        Output folder (created).
+    workers : int, optional
+        Local processes; default every core (``os.cpu_count()``).  1 runs in
+        this process.
+    scheduler : str, optional
+        Address of a running ``dask.distributed`` scheduler
+        (``tcp://host:port``); then ``workers`` is ignored.
+    resume : bool
+        Skip lines whose files are complete and valid.
+    inlines, crosslines : str, optional
+        ``all`` or ``A:B:STEP`` for 3D volumes (default every inline).
+    velocity, velocity_linear, velocity_file, domain, picker, classifier, thresholds, uncertainty, seed
+        Passed to :func:`clinometry.pipeline.analyze` for every line.
+    plot : bool
+        Write a QC PNG per line and the summary/map figures.
+    quiet : bool
+        No progress bar.
+    title : str
+        Title of the review page.
+
+    Returns
+    -------
+    BatchSummary
+
+    Raises
+    ------
+    OSError
+        When the output folder cannot be created.
+    ClinometryError
+        Bad line selection, or an unreachable Dask scheduler.
+    """
+    out = Path(out_dir)
+    out.mkdir(parents=True, exist_ok=True)
+    tasks, problems = plan_tasks(paths, inlines=inlines, crosslines=crosslines)
+    options = TaskOptions(
+        out_dir=str(out.resolve()),
+        velocity=None if velocity is None else float(velocity),
+        velocity_linear=None if velocity_linear is None else tuple(float(v) for v in velocity_linear),
+        velocity_file=None if velocity_file is None else str(Path(velocity_file).resolve()),
+        domain=domain,
+        picker=picker,
+        classifier=classifier,
+        thresholds=None if thresholds is None else str(thresholds),
+        uncertainty=bool(uncertainty),
+        seed=int(seed),
+        plot=bool(plot),
+    )
+    todo, skipped = [], 0
+    for t in tasks:
+        if resume and is_complete(t, out, plot=plot):
+            skipped += 1
+        else:
+            todo.append(t)
+    if resume:
+        logger.info("resume: %d line(s) complete, %d to do", skipped, len(todo))
+    records = []
+    n_failed = 0
+    if todo:
+        n_workers = 1 if scheduler else max(1, min(int(workers or os.cpu_count() or 1), len(todo)))
+        it = _iter_dask(todo, options, scheduler) if scheduler else _iter_local(todo, options, n_workers)
+        bar = _progress(len(todo), quiet)
+        try:
+            for rec in it:
+                records.append(rec)
+                if rec["status"] != "ok":
+                    n_failed += 1
+                bar.set_postfix(done=len(records) - n_failed, failed=n_failed, refresh=False)
+                bar.update(1)
+        finally:
+            bar.close()
+    order = {t.stem: i for i, t in enumerate(tasks)}
+    records.sort(key=lambda r: order.get(r["stem"], -1))
+
+    margins, lines, cautions = collect_tables(tasks, out, plot=plot)
+    errors = list(problems) + [
+        {"file": os.path.basename(r["file"]), "line": r["line"], "error_type": r["error_type"], "message": r["message"]}
+        for r in records if r["status"] != "ok"
+    ]
+    files = {
+        "margins_csv": write_margins_csv(margins, out / "margins.csv"),
+        "errors_csv": write_errors_csv(errors, out / "errors.csv"),
+    }
+    parquet = write_margins_parquet(margins, out / "margins.parquet")
+    if parquet is not None:
+        files["margins_parquet"] = parquet
+    summary_png = map_png = None
+    if plot and margins:
+        from ..report.plots import map_figure, summary_figure
+
+        summary_png = summary_figure(margins, out / "summary.png")
+        if any(t.direction for t in tasks):
+            map_png = map_figure([r for r, t in _rows_with_tasks(margins, tasks) if t.direction], out / "map.png")
+    if summary_png:
+        files["summary_png"] = summary_png
+    if map_png:
+        files["map_png"] = map_png
+    from ..report.html import write_index
+
+    files["index_html"] = write_index(
+        out / "index.html", margins=margins, lines=lines, errors=errors,
+        summary_png=summary_png.name if summary_png else None, map_png=map_png.name if map_png else None,
+        title=title, cautions=cautions,
+    )
+    return BatchSummary(
+        out_dir=str(out), n_tasks=len(tasks), n_ok=sum(r["status"] == "ok" for r in records),
+        n_failed=n_failed, n_skipped=skipped, n_problems=len(problems), n_margins=len(margins),
+        files={k: str(v) for k, v in files.items()}, records=tuple(records),
+    )
+
+
+def _rows_with_tasks(margins, tasks):
+    by_stem = {t.stem: t for t in tasks}
+    for r in margins:
+        t = by_stem.get(r.get("stem"))
+        if t is not None:
+            yield r, t

@@ -1,0 +1,382 @@
+"""Tasks of a batch run: which lines to analyse, the task function, resume.
+
+A batch is a list of :class:`Task` records, one per 2D file or per inline
+(or crossline) of a 3D volume, keyed by ``(file, direction, line)``.  Paths
+may be files, folders (every ``*.sgy`` / ``*.segy`` inside, sorted) or glob
+patterns; the expansion is sorted so the same command gives the same tasks
+in the same order, and so the same output names.
+
+:func:`run_task` is the one function that runs a task, in this process, in
+a worker of a local process pool or on a Dask worker: it reads the line,
+runs :func:`clinometry.pipeline.analyze_full` with the same seed for the same
+task wherever it runs, writes the line's files atomically and returns a small
+plain record.  It never raises for a bad line: the error type and message go
+into the record and from there into ``errors.csv``, and the batch goes on.
+
+:func:`is_complete` decides for ``--resume`` whether a line's outputs are
+complete and valid: the JSON parses and follows the results contract, and the
+horizons CSV and (when plots are on) the QC PNG exist.
+"""
+
+from __future__ import annotations
+
+import glob
+import json
+import logging
+import os
+from dataclasses import asdict, dataclass, field
+from pathlib import Path
+
+from ..errors import ClinometryError, GeometryError
+from ..report.files import safe_name
+
+__all__ = [
+    "SEGY_SUFFIXES",
+    "Task",
+    "TaskOptions",
+    "parse_line_spec",
+    "expand_paths",
+    "plan_tasks",
+    "run_task",
+    "is_complete",
+    "output_names",
+]
+
+logger = logging.getLogger(__name__)
+
+_SHORT = {"inline": "il", "crossline": "xl"}
+
+#: file name endings taken from a folder (case-insensitive; common practice, no source)
+SEGY_SUFFIXES = (".sgy", ".segy")
+
+
+@dataclass(frozen=True)
+class Task:
+    """One line to analyse.
+
+    Attributes
+    ----------
+    path : str
+        The SEG-Y file (absolute).
+    direction : {"inline", "crossline"} or None
+        None for a 2D line.
+    line : int or None
+        Inline or crossline number of a 3D volume.
+    stem : str
+        Output file stem, safe (see :func:`clinometry.report.files.safe_name`).
+    """
+
+    path: str
+    direction: str | None = None
+    line: int | None = None
+    stem: str = ""
+
+    @property
+    def key(self) -> tuple:
+        """``(path, direction, line)``: what identifies the task."""
+        return (self.path, self.direction, self.line)
+
+    @property
+    def label(self) -> str:
+        """``"inline 112"`` for a 3D line, ``""`` for a 2D file."""
+        return f"{self.direction} {self.line}" if self.direction else ""
+
+
+@dataclass(frozen=True)
+class TaskOptions:
+    """Options shared by every task of a run (plain values: they are pickled to workers).
+
+    Attributes
+    ----------
+    out_dir : str
+    velocity : float, m/s, optional
+    velocity_linear : (float, float), optional
+        ``(v0_m_s, k_per_s)``.
+    velocity_file : str, optional
+    domain : {"twt", "depth"}, optional
+    picker, classifier : str
+    thresholds : str, optional
+        TOML file.
+    uncertainty : bool
+    seed : int
+    plot : bool
+    """
+
+    out_dir: str
+    velocity: float | None = None
+    velocity_linear: tuple | None = None
+    velocity_file: str | None = None
+    domain: str | None = None
+    picker: str = "default"
+    classifier: str = "rules"
+    thresholds: str | None = None
+    uncertainty: bool = True
+    seed: int = 0
+    plot: bool = True
+    extra: dict = field(default_factory=dict)
+
+
+def parse_line_spec(spec):
+    """Parse ``--inlines`` / ``--crosslines``: ``all``, ``N``, ``A:B`` or ``A:B:STEP``.
+
+    Parameters
+    ----------
+    spec : str or None
+
+    Returns
+    -------
+    None, "all" or range
+        ``A:B:STEP`` includes both ends when they fall on the step.
+
+    Raises
+    ------
+    GeometryError
+        For anything else, naming the text seen.
+
+    Examples
+    --------
+    >>> list(parse_line_spec("100:110:5"))
+    [100, 105, 110]
+    >>> parse_line_spec("all")
+    'all'
+    """
+    if spec is None:
+        return None
+    text = str(spec).strip().lower()
+    if text == "all":
+        return "all"
+    parts = text.split(":")
+    try:
+        nums = [int(p) for p in parts]
+    except ValueError:
+        raise GeometryError(f"line selection {spec!r}: expected 'all', N, A:B or A:B:STEP with integers") from None
+    if len(nums) == 1:
+        return range(nums[0], nums[0] + 1)
+    if len(nums) in (2, 3):
+        a, b = nums[0], nums[1]
+        step = nums[2] if len(nums) == 3 else 1
+        if step <= 0 or b < a:
+            raise GeometryError(f"line selection {spec!r}: need A <= B and STEP > 0")
+        return range(a, b + 1, step)
+    raise GeometryError(f"line selection {spec!r}: expected 'all', N, A:B or A:B:STEP")
+
+
+def expand_paths(paths):
+    """Expand files, folders and globs into a sorted list of files.
+
+    Parameters
+    ----------
+    paths : sequence of str or os.PathLike
+
+    Returns
+    -------
+    files : list of str
+        Absolute paths, sorted, without duplicates.
+    problems : list of dict
+        One errors-table row per argument that named nothing
+        (``file, line, error_type, message``).
+    """
+    files, problems = [], []
+    for p in paths:
+        p = os.fspath(p)
+        if os.path.isdir(p):
+            found = sorted(
+                os.path.join(p, n) for n in os.listdir(p)
+                if n.lower().endswith(SEGY_SUFFIXES) and os.path.isfile(os.path.join(p, n))
+            )
+            if not found:
+                problems.append(_problem(p, "", "FileNotFoundError",
+                                         f"{p}: folder holds no {' or '.join(SEGY_SUFFIXES)} file"))
+            files.extend(found)
+        elif os.path.exists(p):
+            files.append(p)
+        elif glob.has_magic(p):
+            found = sorted(f for f in glob.glob(p) if os.path.isfile(f))
+            if not found:
+                problems.append(_problem(p, "", "FileNotFoundError", f"{p}: pattern matches no file"))
+            files.extend(found)
+        else:
+            problems.append(_problem(p, "", "FileNotFoundError", f"{p}: no such file or folder"))
+    seen, out = set(), []
+    for f in files:
+        a = os.path.abspath(f)
+        if a not in seen:
+            seen.add(a)
+            out.append(a)
+    return sorted(out), problems
+
+
+def _problem(file, line, error_type, message):
+    return {"file": str(file), "line": str(line), "error_type": error_type, "message": " ".join(str(message).split())}
+
+
+def _volume_lines(path, direction):
+    """Line numbers of a 3D volume in ``direction``, or None for a 2D file."""
+    from .. import io as cio
+
+    if not cio.is_3d(path):
+        return None
+    return [int(n) for n in cio.line_numbers(path, direction=direction)]
+
+
+def plan_tasks(paths, *, inlines=None, crosslines=None):
+    """The tasks of a batch, in a fixed order, and the inputs that cannot run.
+
+    Parameters
+    ----------
+    paths : sequence of str or os.PathLike
+        Files, folders and glob patterns.
+    inlines, crosslines : str, optional
+        Selections for 3D volumes (see :func:`parse_line_spec`).  Default:
+        every inline.
+
+    Returns
+    -------
+    tasks : list of Task
+    problems : list of dict
+        Errors-table rows for arguments that named nothing and files whose
+        geometry could not be read (these files are not tasks).
+
+    Notes
+    -----
+    Output stems are the sanitised file stem, plus ``_ilN`` / ``_xlN`` for
+    lines of a volume (as ``clinometry analyze`` names them); a stem used twice (same file
+    name in two folders) gets ``_2``, ``_3``, ... in task order.
+    """
+    files, problems = expand_paths(paths)
+    il = parse_line_spec(inlines)
+    xl = parse_line_spec(crosslines)
+    if il is None and xl is None:
+        il = "all"
+    tasks, used = [], {}
+    for f in files:
+        base = safe_name(Path(f).stem)
+        try:
+            selections = []
+            for direction, sel in (("inline", il), ("crossline", xl)):
+                if sel is None:
+                    continue
+                nums = _volume_lines(f, direction)
+                if nums is None:  # 2D line
+                    selections = [(None, None)]
+                    break
+                chosen = nums if sel == "all" else [n for n in nums if n in sel]
+                if not chosen:
+                    problems.append(_problem(f, "", "GeometryError",
+                                             f"{os.path.basename(f)}: none of the selected {direction}s "
+                                             f"{_spec_text(sel)} is in the volume ({nums[0]}..{nums[-1]})"))
+                selections.extend((direction, n) for n in chosen)
+        except (ClinometryError, OSError, RuntimeError, ValueError) as err:
+            problems.append(_problem(f, "", type(err).__name__, _message(err, f)))
+            continue
+        for direction, n in selections:
+            stem = base if direction is None else f"{base}_{_SHORT[direction]}{n}"
+            k = used.get(stem, 0) + 1
+            used[stem] = k
+            if k > 1:
+                stem = f"{stem}_{k}"
+            tasks.append(Task(path=f, direction=direction, line=n, stem=stem))
+    return tasks, problems
+
+
+def _spec_text(sel):
+    return f"{sel.start}:{sel.stop - 1}:{sel.step}" if isinstance(sel, range) else str(sel)
+
+
+def _message(err, path):
+    msg = " ".join(str(err).split()) or type(err).__name__
+    name = os.path.basename(str(path))
+    return msg if name in msg else f"{name}: {msg}"
+
+
+def output_names(stem, *, plot=True):
+    """Names of a line's output files: ``{"json", "csv", "png"}`` (png None without plots)."""
+    return {"json": f"{stem}.json", "csv": f"{stem}.horizons.csv", "png": f"{stem}.png" if plot else None}
+
+
+def is_complete(task, out_dir, *, plot=True) -> bool:
+    """True when the outputs of ``task`` exist and its JSON follows the contract.
+
+    Parameters
+    ----------
+    task : Task
+    out_dir : str or os.PathLike
+    plot : bool
+        Whether the QC PNG is required.
+    """
+    from ..result import validate_result_dict
+
+    names = output_names(task.stem, plot=plot)
+    out = Path(out_dir)
+    for n in names.values():
+        if n is not None and not (out / n).is_file():
+            return False
+    try:
+        d = json.loads((out / names["json"]).read_text(encoding="utf-8"))
+        validate_result_dict(d)
+    except (OSError, ValueError, ClinometryError) as err:
+        logger.info("%s: result not valid, redone (%s)", names["json"], err)
+        return False
+    return True
+
+
+def run_task(task, options) -> dict:
+    """Analyse one line and write its files; never raises for a bad line.
+
+    Parameters
+    ----------
+    task : Task
+    options : TaskOptions
+
+    Returns
+    -------
+    dict
+        ``{"key", "stem", "file", "line", "status": "ok"|"failed",
+        "n_margins", "error_type", "message"}``: plain values, cheap to send
+        back from a worker.
+
+    Notes
+    -----
+    Every exception of a line is caught and recorded (fault tolerance of a
+    batch, common practice, no source); ``KeyboardInterrupt`` and
+    ``SystemExit`` are not caught.
+    """
+    from ..pipeline import analyze_full
+    from ..report.files import write_result_files
+
+    rec = {"key": list(task.key), "stem": task.stem, "file": task.path, "line": task.label, "status": "failed",
+           "n_margins": 0, "error_type": "", "message": ""}
+    kwargs = {}
+    if task.direction == "inline":
+        kwargs["inline"] = task.line
+    elif task.direction == "crossline":
+        kwargs["crossline"] = task.line
+    try:
+        result, section, model = analyze_full(
+            task.path,
+            velocity=options.velocity,
+            velocity_linear=tuple(options.velocity_linear) if options.velocity_linear else None,
+            velocity_file=options.velocity_file,
+            domain=options.domain,
+            picker=options.picker,
+            classifier=options.classifier,
+            thresholds=options.thresholds,
+            uncertainty=options.uncertainty,
+            seed=options.seed,
+            **kwargs,
+        )
+        write_result_files(result, options.out_dir, stem=task.stem, plot=options.plot, section=section,
+                           velocity=model)
+    except Exception as err:  # fault tolerance: one bad line must not stop the batch
+        logger.info("%s %s: %s: %s", os.path.basename(task.path), task.label, type(err).__name__, err)
+        rec["error_type"] = type(err).__name__
+        rec["message"] = _message(err, task.path)
+        return rec
+    rec["status"] = "ok"
+    rec["n_margins"] = int(result.n_margins)
+    return rec
+
+
+def task_dict(task) -> dict:
+    """A task as a plain dict (for logs and records)."""
+    return asdict(task)

@@ -1,0 +1,518 @@
+"""QC, summary and map figures (matplotlib, Agg backend, imported on use).
+
+Three figures help an interpreter review automatic picks:
+
+* :func:`qc_figure`, one per line: the section in its own domain (time or
+  depth) with the tracked surfaces, platform top, clinoforms, shelf-break and
+  toe markers and the vertical exaggeration stated; below it the depth
+  profile of each margin with its slope along distance on a twin axis; and a
+  text panel with family, confidence, reasons and key metrics (P10-P90 where
+  the Monte-Carlo uncertainty was run).
+* :func:`summary_figure`, one per batch: distributions of maximum slope and
+  relief per margin family.
+* :func:`map_figure`, for 3D volumes: shelf-break points in x-y coloured by
+  family and, in a second panel, by break depth, so the strike of a margin
+  and changes along it show.
+
+Colours come from the Okabe-Ito palette, chosen because it stays
+distinguishable for the common forms of colour-vision deficiency [1]_; the
+seismic is drawn in grey so that the coloured picks stand out on it.
+
+References
+----------
+.. [1] Okabe, M. & Ito, K. (2008). Color Universal Design (CUD): how to make
+   figures and presentations that are friendly to colorblind people.
+   https://jfly.uni-koeln.de/color/ (from memory)
+"""
+
+from __future__ import annotations
+
+import io
+import logging
+import textwrap
+
+import numpy as np
+
+from .files import atomic_write
+
+__all__ = ["OKABE_ITO", "FAMILY_COLORS", "ROLE_STYLES", "qc_figure", "summary_figure", "map_figure",
+           "vertical_exaggeration"]
+
+logger = logging.getLogger(__name__)
+
+#: Okabe & Ito (2008) colour-blind-safe palette (from memory)
+OKABE_ITO = {
+    "black": "#000000",
+    "orange": "#E69F00",
+    "sky_blue": "#56B4E9",
+    "bluish_green": "#009E73",
+    "yellow": "#F0E442",
+    "blue": "#0072B2",
+    "vermillion": "#D55E00",
+    "reddish_purple": "#CC79A7",
+}
+
+#: colour of each margin family (and of margins without a family)
+FAMILY_COLORS = {
+    "ramp": OKABE_ITO["bluish_green"],
+    "rimmed_shelf": OKABE_ITO["blue"],
+    "steep_margin": OKABE_ITO["vermillion"],
+    None: "#7f7f7f",
+}
+
+#: how each horizon role is drawn on the section: (colour, line width, label)
+ROLE_STYLES = {
+    "reflector": (OKABE_ITO["sky_blue"], 0.6, "tracked reflector"),
+    "margin_profile": (OKABE_ITO["orange"], 2.0, "margin profile"),
+    "platform_top": (OKABE_ITO["yellow"], 2.0, "platform top"),
+    "clinoform": (OKABE_ITO["reddish_purple"], 1.2, "clinoform"),
+    "user": (OKABE_ITO["bluish_green"], 1.5, "interpreter horizon"),
+}
+
+_BREAK_STYLE = dict(marker="v", s=90, color=OKABE_ITO["vermillion"], edgecolor="white", linewidth=1.0, zorder=6)
+_TOE_STYLE = dict(marker="^", s=90, color=OKABE_ITO["blue"], edgecolor="white", linewidth=1.0, zorder=6)
+_FONT_SIZE = 9
+
+
+def _as_dict(result):
+    return result.to_dict() if hasattr(result, "to_dict") else dict(result)
+
+
+def _save(fig, path):
+    buf = io.BytesIO()
+    fig.savefig(buf, format="png", dpi=110)
+    import matplotlib.pyplot as plt
+
+    plt.close(fig)
+    return atomic_write(path, buf.getvalue())
+
+
+def _pyplot():
+    import matplotlib
+
+    matplotlib.use("Agg", force=False)
+    import matplotlib.pyplot as plt
+
+    return plt
+
+
+def _m_per_z(result, section):
+    """Metres of depth per z unit: 1 for depth sections, else from the result's points."""
+    if section.attrs.get("domain") == "depth":
+        return 1.0
+    ratios = []
+    for m in result.get("margins", []) or []:
+        pts = [m.get("break"), m.get("toe"), m.get("platform_top")]
+        pts += [c.get(k) for c in m.get("clinoforms") or [] for k in ("break", "toe")]
+        for p in pts:
+            if isinstance(p, dict) and p.get("z") and p.get("depth_m") is not None and p["z"] > 0:
+                ratios.append(p["depth_m"] / p["z"])
+    if ratios:
+        return float(np.median(ratios))
+    vel = result.get("velocity") or {}
+    v = vel.get("v_m_s")
+    if v:
+        return float(v) / 2000.0  # one-way metres per ms TWT: v/2 per s (common practice, no source)
+    return None
+
+
+def vertical_exaggeration(x_span_m, z_span_m, width_in, height_in):
+    """Vertical exaggeration of a plot: vertical scale over horizontal scale.
+
+    Parameters
+    ----------
+    x_span_m, z_span_m : float, m
+        Horizontal distance and depth range shown.
+    width_in, height_in : float, inch
+        Size of the plot area.
+
+    Returns
+    -------
+    float
+        1 means true scale; 5 means one metre of depth is drawn five times
+        as long as one metre of distance.
+
+    Notes
+    -----
+    VE = (height / depth range) / (width / distance range), the ratio of the
+    vertical to the horizontal scale (common practice, no source).
+
+    Examples
+    --------
+    >>> vertical_exaggeration(10000.0, 1000.0, 10.0, 5.0)
+    5.0
+    """
+    return (height_in / z_span_m) / (width_in / x_span_m)
+
+
+def _horizon_groups(horizons):
+    """Rows of a horizons table -> {horizon_id: (role, distance_m, z, depth_m)}."""
+    groups = {}
+    for r in horizons or []:
+        hid = r.get("horizon_id")
+        g = groups.setdefault(hid, {"role": r.get("role"), "d": [], "z": [], "depth": []})
+        g["d"].append(float(r["distance_m"]) if r.get("distance_m") not in (None, "") else np.nan)
+        g["z"].append(float(r["z"]) if r.get("z") not in (None, "") else np.nan)
+        g["depth"].append(float(r["depth_m"]) if r.get("depth_m") not in (None, "") else np.nan)
+    return groups
+
+
+def _rows_from_picks(picks, section):
+    """Horizon rows (distance_m, z, role; no depth) straight from a Picks record."""
+    if picks is None or not getattr(picks, "horizons", None):
+        return []
+    dist = np.asarray(section["distance"].values, dtype=float)
+    rows = []
+    for h in picks.horizons:
+        t = np.asarray(h.trace, dtype=int)
+        ok = (t >= 0) & (t < dist.size)
+        for ti, zi in zip(t[ok], np.asarray(h.z, dtype=float)[ok]):
+            rows.append({"horizon_id": h.id, "role": h.role, "distance_m": dist[ti], "z": zi, "depth_m": None})
+    return rows
+
+
+def _margin_profile(margin, groups):
+    """Depth profile of a margin: (distance_m, depth_m, slope_deg) or None."""
+    prof = margin.get("profile") or {}
+    d = prof.get("distance_m")
+    z = prof.get("depth_m")
+    if d is not None and z is not None and len(d) > 2:
+        d = np.asarray(d, dtype=float)
+        z = np.asarray(z, dtype=float)
+        s = prof.get("slope_deg")
+        s = np.asarray(s, dtype=float) if s is not None and len(s) == len(d) else None
+    else:
+        cand = [g for g in groups.values() if g["role"] == "margin_profile"]
+        if not cand:
+            return None
+        # the margin profile nearest to this margin's break, else the longest
+        brk = margin.get("break") or {}
+        if brk.get("distance_m") is not None and len(cand) > 1:
+            cand.sort(key=lambda g: np.nanmin(np.abs(np.asarray(g["d"]) - brk["distance_m"])))
+        else:
+            cand.sort(key=lambda g: -len(g["d"]))
+        d = np.asarray(cand[0]["d"], dtype=float)
+        z = np.asarray(cand[0]["depth"], dtype=float)
+        s = None
+    ok = np.isfinite(d) & np.isfinite(z)
+    if ok.sum() < 3:
+        return None
+    d, z = d[ok], z[ok]
+    if s is not None:
+        s = s[ok]
+    else:
+        # apparent slope along the line from the depth profile: atan(dz/dx)
+        # (common practice, no source)
+        s = np.degrees(np.arctan(np.abs(np.gradient(z, d))))
+    return d, z, s
+
+
+def _fmt(v, unit="", digits=1):
+    if v is None:
+        return "n/a"
+    try:
+        return f"{float(v):.{digits}f}{unit}"
+    except (TypeError, ValueError):
+        return str(v)
+
+
+def _metric_line(margin, key, label, unit, digits=1):
+    from .files import _percentile, _value
+
+    v = _value(margin, key)
+    p10, p90 = _percentile(margin, key, "p10"), _percentile(margin, key, "p90")
+    text = f"{label}: {_fmt(v, unit, digits)}"
+    if p10 is not None and p90 is not None:
+        text += f"  (P10-P90 {_fmt(p10, '', digits)}-{_fmt(p90, unit, digits)})"
+    return text
+
+
+def _margin_text(margin, width=58):
+    fam = margin.get("family") or "unclassified"
+    sub = margin.get("subtype")
+    conf = margin.get("confidence")
+    direction = "increasing" if margin.get("direction") == "+" else "decreasing"
+    lines = [
+        f"Margin, basin towards {direction} trace number",
+        f"Family: {fam}" + (f" ({sub})" if sub else "") + f"   confidence {_fmt(conf, '', 2)}",
+        _metric_line(margin, "slope_max_deg", "Max slope", "°"),
+        _metric_line(margin, "slope_mean_deg", "Mean slope", "°"),
+        _metric_line(margin, "relief_m", "Relief", " m", 0),
+    ]
+    traj = margin.get("trajectory") or {}
+    if traj:
+        lines.append(f"Break trajectory: {traj.get('class', 'n/a')}, {_fmt(traj.get('angle_deg'), '°')}")
+    else:
+        lines.append("Break trajectory: n/a")
+    reasons = list(margin.get("reasons") or [])
+    if reasons:
+        lines.append("Reasons:")
+        for r in reasons[:4]:
+            lines.extend(textwrap.wrap(str(r), width, initial_indent="  - ", subsequent_indent="    "))
+        if len(reasons) > 4:
+            lines.append(f"  ... {len(reasons) - 4} more in the JSON")
+    missing = margin.get("missing") or {}
+    if isinstance(missing, dict) and missing:
+        lines.append("Not measured:")
+        for k, why in list(missing.items())[:3]:
+            lines.extend(textwrap.wrap(f"{k}: {why}", width, initial_indent="  - ", subsequent_indent="    "))
+    return "\n".join(lines)
+
+
+def qc_figure(result, section, path, *, horizons=None, title=None):
+    """Draw the QC figure of one line and write it as PNG (atomically).
+
+    Parameters
+    ----------
+    result : Result or dict
+        The result of the line (JSON contract).
+    section : xarray.DataArray, dims ("trace", "z")
+        The section the result was computed on (ms TWT or m depth).
+    path : str or os.PathLike
+        Output PNG.
+    horizons : list of dict, optional
+        Rows of the horizons table (``horizon_id, role, trace, distance_m,
+        x, y, z, depth_m, quality``) drawn on the section.  Default: the
+        horizons of ``result.picks`` when ``result`` is a Result.
+    title : str, optional
+        Default: the source file name and line label.
+
+    Returns
+    -------
+    pathlib.Path
+
+    Notes
+    -----
+    The vertical exaggeration is the ratio of vertical to horizontal scale
+    (common practice, no source); for time sections it is computed after
+    converting the time range to depth with the run's velocity and said to
+    be approximate.
+    """
+    plt = _pyplot()
+    from matplotlib.lines import Line2D
+
+    res = _as_dict(result)
+    margins = list(res.get("margins", []) or [])
+    if horizons is None:
+        horizons = _rows_from_picks(getattr(result, "picks", None), section)
+    groups = _horizon_groups(horizons)
+    domain = section.attrs.get("domain", "twt")
+    zunit = "ms TWT" if domain == "twt" else "m"
+    dist_km = np.asarray(section["distance"].values, dtype=float) / 1000.0
+    z = np.asarray(section["z"].values, dtype=float)
+    data = np.asarray(section.values, dtype=float)
+    finite = data[np.isfinite(data)]
+    clip = float(np.percentile(np.abs(finite), 98)) if finite.size else 1.0
+    clip = clip if clip > 0 else 1.0
+
+    n_rows = 1 + max(1, len(margins))
+    fig = plt.figure(figsize=(13.0, 4.8 + 2.9 * max(1, len(margins))))
+    gs = fig.add_gridspec(n_rows, 2, width_ratios=[2.3, 1.0], height_ratios=[1.7] + [1.0] * (n_rows - 1),
+                          hspace=0.42, wspace=0.06, left=0.07, right=0.97, top=0.92, bottom=0.06)
+    ax = fig.add_subplot(gs[0, :])
+    ax.imshow(data.T, cmap="gray_r", vmin=-clip, vmax=clip, aspect="auto", interpolation="bilinear",
+              extent=[dist_km[0], dist_km[-1], z[-1], z[0]])
+    handles = []
+    seen_roles = set()
+    for g in groups.values():
+        color, lw, label = ROLE_STYLES.get(g["role"], ROLE_STYLES["reflector"])
+        ax.plot(np.asarray(g["d"]) / 1000.0, g["z"], color=color, lw=lw, zorder=3 if g["role"] != "reflector" else 2)
+        if g["role"] not in seen_roles:
+            seen_roles.add(g["role"])
+            handles.append(Line2D([], [], color=color, lw=max(lw, 1.2), label=label))
+    for m in margins:
+        for key, style, lab in (("break", _BREAK_STYLE, "shelf break"), ("toe", _TOE_STYLE, "toe of slope")):
+            pts = [m.get(key)] + [c.get(key) for c in m.get("clinoforms") or []]
+            pts = [p for p in pts if isinstance(p, dict) and p.get("distance_m") is not None and p.get("z") is not None]
+            if pts:
+                ax.scatter([p["distance_m"] / 1000.0 for p in pts], [p["z"] for p in pts], **style)
+        for lab, style in (("shelf break", _BREAK_STYLE), ("toe of slope", _TOE_STYLE)):
+            if lab not in seen_roles:
+                seen_roles.add(lab)
+                handles.append(Line2D([], [], linestyle="none", marker=style["marker"], color=style["color"],
+                                      markersize=8, label=lab))
+    ax.set_xlim(dist_km[0], dist_km[-1])
+    ax.set_ylim(z[-1], z[0])
+    ax.set_xlabel("distance along line (km)", fontsize=_FONT_SIZE)
+    ax.set_ylabel(f"{'two-way time' if domain == 'twt' else 'depth'} ({zunit})", fontsize=_FONT_SIZE)
+    ax.tick_params(labelsize=_FONT_SIZE)
+    if handles:
+        ax.legend(handles=handles, loc="lower left", fontsize=8, framealpha=0.85, ncol=min(4, len(handles)))
+
+    # vertical exaggeration of the section panel
+    fig.canvas.draw()
+    bbox = ax.get_window_extent().transformed(fig.dpi_scale_trans.inverted())
+    m_per_z = _m_per_z(res, section)
+    x_span = (dist_km[-1] - dist_km[0]) * 1000.0
+    if m_per_z and x_span > 0:
+        ve = vertical_exaggeration(x_span, (z[-1] - z[0]) * m_per_z, bbox.width, bbox.height)
+        ve_text = f"vertical exaggeration {'≈ ' if domain == 'twt' else ''}{ve:.1f}×"
+        if domain == "twt":
+            ve_text += f" (time converted at {m_per_z * 2000:.0f} m/s mean)"
+    else:
+        ve_text = "vertical exaggeration unknown (no velocity for this time section)"
+    src = res.get("source") or {}
+    name = title or " ".join(str(s) for s in (src.get("file") or src.get("path", ""), src.get("line_label") or src.get("line", "")) if s)
+    ax.set_title(f"{name}\n{ve_text}", fontsize=10, loc="left")
+
+    if not margins:
+        tax = fig.add_subplot(gs[1, :])
+        tax.axis("off")
+        why = "; ".join(str(n) for n in (res.get("notes") or [])) or "the picker found no platform margin on this line"
+        tax.text(0.0, 0.9, "No margin on this line.\n" + "\n".join(textwrap.wrap(why, 110)),
+                 va="top", fontsize=_FONT_SIZE + 1, transform=tax.transAxes)
+    for i, m in enumerate(margins):
+        pax = fig.add_subplot(gs[1 + i, 0])
+        color = FAMILY_COLORS.get(m.get("family"), FAMILY_COLORS[None])
+        prof = _margin_profile(m, groups)
+        if prof is None:
+            pax.text(0.5, 0.5, "no depth profile for this margin", ha="center", va="center", transform=pax.transAxes)
+            pax.set_xlabel("distance along line (km)", fontsize=_FONT_SIZE)
+            pax.set_ylabel("depth (m)", fontsize=_FONT_SIZE)
+        else:
+            d, dep, slope = prof
+            pax.plot(d / 1000.0, dep, color=OKABE_ITO["black"], lw=1.8, label="margin depth")
+            pax.invert_yaxis()
+            pax.set_xlim(dist_km[0], dist_km[-1])  # same distance axis as the section above
+            pax.set_xlabel("distance along line (km)", fontsize=_FONT_SIZE)
+            pax.set_ylabel("depth (m)", fontsize=_FONT_SIZE)
+            for key, style in (("break", _BREAK_STYLE), ("toe", _TOE_STYLE)):
+                p = m.get(key)
+                if isinstance(p, dict) and p.get("distance_m") is not None and p.get("depth_m") is not None:
+                    pax.scatter([p["distance_m"] / 1000.0], [p["depth_m"]], **style)
+            sax = pax.twinx()
+            sax.plot(d / 1000.0, slope, color=color, lw=1.2, ls="--", label="slope")
+            sax.set_ylabel("slope along line (°)", fontsize=_FONT_SIZE, color=color)
+            sax.tick_params(labelsize=_FONT_SIZE, colors=color, axis="y")
+            sax.set_ylim(0, max(5.0, float(np.nanmax(slope)) * 1.15 if np.isfinite(slope).any() else 5.0))
+            pax.set_title("depth profile (solid, left axis) and slope (dashed, right axis)", fontsize=_FONT_SIZE, loc="left")
+        pax.tick_params(labelsize=_FONT_SIZE)
+        tax = fig.add_subplot(gs[1 + i, 1])
+        tax.axis("off")
+        tax.add_patch(plt.Rectangle((0.0, 0.93), 0.04, 0.06, color=color, transform=tax.transAxes, clip_on=False))
+        tax.text(0.06, 0.99, _margin_text(m), va="top", ha="left", fontsize=8.2, family="DejaVu Sans",
+                 transform=tax.transAxes, linespacing=1.25)
+    return _save(fig, path)
+
+
+def _family_values(rows, key):
+    out = {}
+    for r in rows:
+        v = r.get(key)
+        if v is None or v == "":
+            continue
+        try:
+            v = float(v)
+        except (TypeError, ValueError):
+            continue
+        if np.isfinite(v):
+            out.setdefault(r.get("family") or None, []).append(v)
+    return out
+
+
+def summary_figure(rows, path, *, title="Margins of this run"):
+    """Distributions of maximum slope and relief per margin family (PNG).
+
+    Parameters
+    ----------
+    rows : list of dict
+        Rows of the margins table (:func:`clinometry.report.files.margin_rows`).
+    path : str or os.PathLike
+        Output PNG.
+    title : str
+
+    Returns
+    -------
+    pathlib.Path
+    """
+    plt = _pyplot()
+    fig, axes = plt.subplots(1, 2, figsize=(11.0, 4.2))
+    order = ["ramp", "rimmed_shelf", "steep_margin", None]
+    for ax, key, label in ((axes[0], "slope_max_deg", "maximum slope (°)"), (axes[1], "relief_m", "relief (m)")):
+        vals = _family_values(rows, key)
+        fams = [f for f in order if f in vals]
+        if not fams:
+            ax.text(0.5, 0.5, f"no {label} measured", ha="center", va="center", transform=ax.transAxes)
+        for j, f in enumerate(fams):
+            v = np.asarray(vals[f])
+            color = FAMILY_COLORS.get(f, FAMILY_COLORS[None])
+            if v.size >= 3:
+                parts = ax.violinplot([v], positions=[j], widths=0.7, showextrema=False)
+                for b in parts["bodies"]:
+                    b.set_facecolor(color)
+                    b.set_alpha(0.35)
+            jitter = np.random.default_rng(j).uniform(-0.12, 0.12, v.size)  # seeded: same figure every run
+            ax.scatter(j + jitter, v, color=color, s=16, edgecolor="black", linewidth=0.3, zorder=3)
+            ax.hlines(np.median(v), j - 0.3, j + 0.3, color="black", lw=1.5, zorder=4)
+        ax.set_xticks(range(len(fams)))
+        ax.set_xticklabels([f"{f or 'unclassified'}\n(n={len(vals[f])})" for f in fams], fontsize=_FONT_SIZE)
+        ax.set_ylabel(label, fontsize=_FONT_SIZE)
+        ax.set_xlabel("margin family", fontsize=_FONT_SIZE)
+        ax.set_xlim(-0.6, max(len(fams), 1) - 0.4)
+        ax.grid(axis="y", alpha=0.3)
+    fig.suptitle(f"{title}: points are margins, bar is the median", fontsize=10)
+    fig.tight_layout()
+    return _save(fig, path)
+
+
+def map_figure(rows, path, *, title="Shelf-break map"):
+    """Map of shelf-break points in x-y: by family, and by break depth (PNG).
+
+    Parameters
+    ----------
+    rows : list of dict
+        Rows of the margins table with ``break_x``, ``break_y``,
+        ``break_depth_m`` and ``family``.
+    path : str or os.PathLike
+        Output PNG.
+    title : str
+
+    Returns
+    -------
+    pathlib.Path or None
+        None when no row has break coordinates.
+    """
+    pts = []
+    for r in rows:
+        try:
+            x, y = float(r["break_x"]), float(r["break_y"])
+        except (TypeError, ValueError, KeyError):
+            continue
+        d = r.get("break_depth_m")
+        pts.append((x, y, float(d) if d not in (None, "") else np.nan, r.get("family") or None))
+    if not pts:
+        return None
+    plt = _pyplot()
+    from matplotlib.lines import Line2D
+
+    x = np.array([p[0] for p in pts])
+    y = np.array([p[1] for p in pts])
+    dep = np.array([p[2] for p in pts])
+    fam = [p[3] for p in pts]
+    fig, axes = plt.subplots(1, 2, figsize=(12.0, 5.2))
+    for f in ["ramp", "rimmed_shelf", "steep_margin", None]:
+        sel = np.array([g == f for g in fam])
+        if sel.any():
+            axes[0].scatter(x[sel], y[sel], color=FAMILY_COLORS[f], s=28, edgecolor="black", linewidth=0.3,
+                            label=f or "unclassified")
+    axes[0].legend(fontsize=8, title="margin family", title_fontsize=8)
+    axes[0].set_title("shelf break by margin family", fontsize=10)
+    ok = np.isfinite(dep)
+    if ok.any():
+        sc = axes[1].scatter(x[ok], y[ok], c=dep[ok], cmap="viridis_r", s=28, edgecolor="black", linewidth=0.3)
+        cb = fig.colorbar(sc, ax=axes[1])
+        cb.set_label("break depth (m)", fontsize=_FONT_SIZE)
+        cb.ax.invert_yaxis()
+    if (~ok).any():
+        axes[1].scatter(x[~ok], y[~ok], marker="x", color="#7f7f7f", s=20)
+        axes[1].legend(handles=[Line2D([], [], marker="x", ls="none", color="#7f7f7f", label="no depth")], fontsize=8)
+    axes[1].set_title("shelf break by depth", fontsize=10)
+    for ax in axes:
+        ax.set_xlabel("x (m)", fontsize=_FONT_SIZE)
+        ax.set_aspect("equal", adjustable="datalim")
+        ax.tick_params(labelsize=8)
+        ax.grid(alpha=0.3)
+    axes[0].set_ylabel("y (m)", fontsize=_FONT_SIZE)
+    fig.suptitle(title, fontsize=11)
+    fig.tight_layout()
+    return _save(fig, path)

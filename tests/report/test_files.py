@@ -1,0 +1,140 @@
+"""Tests of clinometry.report.files: atomic writes, safe names, margins/errors tables."""
+
+import csv
+import io
+import os
+
+import numpy as np
+import pytest
+
+from clinometry.report import files
+from clinometry.report.files import (
+    ERROR_COLUMNS,
+    MARGIN_COLUMNS,
+    atomic_write,
+    margin_rows,
+    safe_name,
+    write_errors_csv,
+    write_margins_csv,
+    write_margins_parquet,
+)
+
+
+def _point(trace, d, depth, z):
+    return {"trace": trace, "distance_m": d, "depth_m": depth, "x": 1000.0 + d, "y": 500.0, "z": z}
+
+
+def _result():
+    """A hand-built result in the JSON contract (invented numbers)."""
+    return {
+        "schema_version": 1,
+        "source": {"path": "a.sgy", "n_traces": 10, "n_samples": 20, "domain": "twt"},
+        "velocity": {"model": "constant", "v_m_s": 2500.0},
+        "margins": [
+            {"direction": "+", "family": "rimmed_shelf", "subtype": None, "confidence": 0.81,
+             "reasons": ["slope 12 deg above 10 deg"], "platform_top": None,
+             "break": _point(40, 1000.0, 250.0, 200.0), "toe": _point(60, 1500.0, 700.0, 560.0),
+             "relief_m": 450.0, "slope_max_deg": 21.5, "slope_mean_deg": 12.25,
+             "uncertainty": {"relief_m": {"p10": 400.0, "p50": 450.0, "p90": 505.0},
+                             "slope_max_deg": {"p10": 19.0, "p50": 21.5, "p90": 24.0}},
+             "clinoforms": [{"break": None, "toe": None}, {"break": None, "toe": None}],
+             "trajectory": {"angle_deg": 3.5, "class": "ascending"}},
+            {"direction": "-", "family": None, "subtype": None, "confidence": 0.0, "reasons": [],
+             "platform_top": None, "break": None, "toe": None, "relief_m": None,
+             "slope_max_deg": float("nan"), "slope_mean_deg": None, "clinoforms": [], "trajectory": None},
+        ],
+    }
+
+
+def test_atomic_write_writes_text_and_bytes(tmp_path):
+    atomic_write(tmp_path / "a.txt", "héllo")
+    atomic_write(tmp_path / "b.bin", b"\x00\x01")
+    assert (tmp_path / "a.txt").read_text(encoding="utf-8") == "héllo"
+    assert (tmp_path / "b.bin").read_bytes() == b"\x00\x01"
+    assert sorted(os.listdir(tmp_path)) == ["a.txt", "b.bin"]  # no temporary file left
+
+
+def test_atomic_write_failure_keeps_old_file_and_leaves_no_temp(tmp_path, monkeypatch):
+    target = tmp_path / "margins.csv"
+    target.write_text("old complete content")
+
+    def broken_replace(src, dst):
+        raise OSError("disk full (simulated)")
+
+    monkeypatch.setattr(files.os, "replace", broken_replace)
+    with pytest.raises(OSError, match="disk full"):
+        atomic_write(target, "new content that never lands")
+    # a reader sees the old file whole, and no temp file is left behind
+    # (temp + rename is the usual atomic-update pattern: common practice, no source)
+    assert target.read_text() == "old complete content"
+    assert os.listdir(tmp_path) == ["margins.csv"]
+
+
+@pytest.mark.parametrize(
+    "text, expected",
+    [
+        ("../../etc/passwd", "etc_passwd"),
+        ("/abs/path/line.sgy", "abs_path_line.sgy"),
+        ("..\\..\\win\\x", "win_x"),
+        (".hidden", "hidden"),
+        ("line 7 (reprocessed)", "line_7_reprocessed"),
+        ("..", "line"),
+        ("", "line"),
+        ("a..b", "a_b"),
+    ],
+)
+def test_safe_name_removes_separators_traversal_and_leading_dots(text, expected):
+    # no path separator, no "..", no leading dot (common practice, no source)
+    out = safe_name(text)
+    assert out == expected
+    assert os.path.basename(out) == out and ".." not in out and not out.startswith(".")
+
+
+def test_margin_rows_flattens_points_percentiles_and_trajectory():
+    rows = margin_rows(_result(), file="a.sgy", line="inline 5", stem="a_il5")
+    assert len(rows) == 2
+    r = rows[0]
+    assert set(r) == set(MARGIN_COLUMNS)
+    assert (r["file"], r["line"], r["stem"], r["family"]) == ("a.sgy", "inline 5", "a_il5", "rimmed_shelf")
+    assert (r["break_x"], r["break_depth_m"], r["toe_depth_m"]) == (2000.0, 250.0, 700.0)
+    assert (r["relief_m_p10"], r["relief_m_p90"]) == (400.0, 505.0)
+    assert (r["slope_max_deg_p10"], r["slope_max_deg_p90"]) == (19.0, 24.0)
+    assert r["slope_mean_deg_p10"] is None  # not computed, not invented
+    assert (r["trajectory_class"], r["trajectory_angle_deg"], r["n_clinoforms"]) == ("ascending", 3.5, 2)
+    r2 = rows[1]
+    assert r2["slope_max_deg"] is None  # NaN never reaches a table as a number
+    assert r2["break_x"] is None and r2["trajectory_class"] is None
+
+
+def test_margins_csv_reads_back_with_stdlib_csv(tmp_path):
+    rows = margin_rows(_result(), file="a.sgy", stem="a")
+    write_margins_csv(rows, tmp_path / "margins.csv")
+    # Python's csv module as an independent reader
+    with open(tmp_path / "margins.csv", newline="") as fh:
+        back = list(csv.DictReader(fh))
+    assert tuple(back[0]) == MARGIN_COLUMNS
+    assert len(back) == 2
+    assert float(back[0]["relief_m"]) == 450.0
+    assert float(back[0]["slope_mean_deg"]) == 12.25
+    assert back[1]["relief_m"] == "" and back[1]["family"] == ""
+
+
+def test_errors_csv_quotes_commas_and_newlines(tmp_path):
+    rows = [{"file": "bad, file.sgy", "line": "", "error_type": "SegyReadError",
+             "message": 'bad, file.sgy: "truncated"'}]
+    write_errors_csv(rows, tmp_path / "errors.csv")
+    back = list(csv.DictReader(io.StringIO((tmp_path / "errors.csv").read_text())))
+    assert tuple(back[0]) == ERROR_COLUMNS
+    assert back[0]["file"] == "bad, file.sgy"
+    assert back[0]["message"] == 'bad, file.sgy: "truncated"'
+
+
+def test_margins_parquet_matches_csv_rows(tmp_path):
+    pq = pytest.importorskip("pyarrow.parquet")
+    rows = margin_rows(_result(), file="a.sgy", stem="a")
+    path = write_margins_parquet(rows, tmp_path / "margins.parquet")
+    table = pq.read_table(path)
+    assert table.column_names == list(MARGIN_COLUMNS)
+    np.testing.assert_allclose(table.column("relief_m").to_pylist()[0], 450.0)
+    assert table.column("relief_m").to_pylist()[1] is None
+    assert table.column("family").to_pylist() == ["rimmed_shelf", None]

@@ -1,0 +1,112 @@
+"""Tests of the QC, summary and map figures (rendered with the Agg backend)."""
+
+import numpy as np
+import pytest
+
+from clinometry.picking.picks import Horizon, Picks
+from clinometry.report.plots import (
+    FAMILY_COLORS,
+    OKABE_ITO,
+    map_figure,
+    qc_figure,
+    summary_figure,
+    vertical_exaggeration,
+)
+from clinometry.section import make_section
+
+mpimg = pytest.importorskip("matplotlib.image")
+
+PNG_SIGNATURE = b"\x89PNG\r\n\x1a\n"  # PNG specification (ISO/IEC 15948), from memory
+
+
+def _section(domain="twt"):
+    rng = np.random.default_rng(7)
+    z = np.arange(0.0, 400.0, 4.0)
+    return make_section(rng.normal(size=(60, z.size)).astype("float32"), z=z, domain=domain,
+                        trace_spacing_m=25.0, attrs={"source_path": "demo_line.sgy"})
+
+
+def _pt(trace, z, v=2500.0):
+    d = trace * 25.0
+    return {"trace": trace, "distance_m": d, "x": d, "y": 0.0, "z": z, "depth_m": z * v / 2000.0}
+
+
+def _result():
+    d = np.arange(60) * 25.0
+    depth = np.where(d < 500, 100.0, np.where(d > 1000, 400.0, 100.0 + (d - 500) * 0.6))
+    return {
+        "schema_version": 1,
+        "source": {"path": "demo_line.sgy", "n_traces": 60, "n_samples": 100, "domain": "twt"},
+        "velocity": {"model": "constant", "v_m_s": 2500.0},
+        "run": {"notes": []},
+        "margins": [{
+            "direction": "+", "family": "rimmed_shelf", "subtype": None, "confidence": 0.75,
+            "reasons": ["maximum slope 31 deg is above the 10 deg rimmed-shelf threshold"],
+            "platform_top": _pt(10, 80.0), "break": _pt(20, 80.0), "toe": _pt(40, 320.0),
+            "relief_m": 300.0, "slope_max_deg": 31.0, "slope_mean_deg": 20.0,
+            "uncertainty": {"relief_m": {"p10": 280.0, "p50": 300.0, "p90": 320.0}},
+            "clinoforms": [], "trajectory": None,
+            "profile": {"distance_m": d.tolist(), "depth_m": depth.tolist()},
+        }],
+    }
+
+
+def test_vertical_exaggeration_is_vertical_over_horizontal_scale():
+    # 10 km drawn 10 in wide (1 km/in), 1 km drawn 5 in high (0.2 km/in) -> VE 5
+    # (ratio of scales, common practice, no source)
+    assert vertical_exaggeration(10000.0, 1000.0, 10.0, 5.0) == pytest.approx(5.0)
+    assert vertical_exaggeration(1000.0, 1000.0, 4.0, 4.0) == pytest.approx(1.0)
+
+
+def test_palette_is_okabe_ito():
+    # Okabe & Ito (2008) colour-universal-design palette (from memory)
+    assert OKABE_ITO["vermillion"] == "#D55E00" and OKABE_ITO["blue"] == "#0072B2"
+    assert OKABE_ITO["bluish_green"] == "#009E73" and OKABE_ITO["orange"] == "#E69F00"
+    assert len(set(FAMILY_COLORS.values())) == len(FAMILY_COLORS)
+
+
+def test_qc_figure_writes_a_png_with_section_profile_and_text(tmp_path):
+    sec = _section()
+    picks = Picks(horizons=(Horizon(0, "margin_profile", np.arange(60), np.linspace(80, 320, 60), np.ones(60)),
+                            Horizon(1, "reflector", np.arange(10, 50), np.full(40, 200.0), np.ones(40))))
+
+    class _R:  # a Result-like object: to_dict() and picks
+        def __init__(self, d, p):
+            self._d, self.picks = d, p
+
+        def to_dict(self):
+            return self._d
+
+    before = sec.copy(deep=True)
+    path = qc_figure(_R(_result(), picks), sec, tmp_path / "line.png")
+    assert path.read_bytes()[:8] == PNG_SIGNATURE
+    img = mpimg.imread(path)
+    # 13 in x (4.8 + 2.9) in at 110 dpi, one margin
+    assert img.shape[:2] == (round(7.7 * 110), 13 * 110)
+    assert float(img[..., :3].std()) > 0.05  # not a blank canvas
+    np.testing.assert_array_equal(sec.values, before.values)  # input untouched
+
+
+def test_qc_figure_line_without_margin(tmp_path):
+    res = _result()
+    res["margins"] = []
+    res["run"]["notes"] = ["no margin found on this line: flat reflectors only"]
+    path = qc_figure(res, _section("depth"), tmp_path / "flat.png")
+    img = mpimg.imread(path)
+    assert img.shape[:2] == (round(7.7 * 110), 13 * 110)
+
+
+def test_summary_and_map_figures(tmp_path):
+    rows = [{"family": f, "slope_max_deg": s, "relief_m": r, "break_x": x, "break_y": y, "break_depth_m": dep}
+            for f, s, r, x, y, dep in [("ramp", 1.0, 50.0, 0.0, 0.0, 100.0), ("ramp", 1.5, 60.0, 100.0, 0.0, 110.0),
+                                       ("ramp", 0.8, 40.0, 200.0, 0.0, 120.0),
+                                       ("steep_margin", 30.0, 800.0, 0.0, 500.0, None)]]
+    s = summary_figure(rows, tmp_path / "summary.png")
+    m = map_figure(rows, tmp_path / "map.png")
+    assert mpimg.imread(s).shape[:2] == (round(4.2 * 110), round(11.0 * 110))
+    assert mpimg.imread(m).shape[:2] == (round(5.2 * 110), round(12.0 * 110))
+
+
+def test_map_figure_without_break_coordinates_writes_nothing(tmp_path):
+    assert map_figure([{"family": "ramp", "break_x": None, "break_y": None}], tmp_path / "map.png") is None
+    assert not (tmp_path / "map.png").exists()
