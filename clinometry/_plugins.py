@@ -21,7 +21,7 @@ from importlib.metadata import EntryPoint, entry_points
 
 from .errors import ClinometryWarning, PluginError
 
-__all__ = ["GROUPS", "list_plugins", "load_plugin", "plugin_parameters", "plugin_description"]
+__all__ = ["GROUPS", "list_plugins", "load_plugin", "plugin_names", "plugin_parameters", "plugin_description"]
 
 logger = logging.getLogger(__name__)
 
@@ -55,6 +55,11 @@ def _entry_points(group: str) -> tuple[EntryPoint, ...]:
             continue
         seen.setdefault(ep.name, ep)
     return tuple(sorted(seen.values(), key=lambda e: e.name))
+
+
+def plugin_names(kind: str) -> list:
+    """Names of the installed plugins of one kind, sorted, without loading them."""
+    return [ep.name for ep in _entry_points(_group(kind))]
 
 
 def list_plugins(kind: str) -> dict:
