@@ -1,1 +1,34 @@
-"""(being built)"""
+"""Reading SEG-Y files into sections.
+
+:func:`read_section` reads one 2D line, or one inline/crossline of a 3D
+volume; :func:`iter_sections` yields every line of a volume one at a time;
+:func:`inspect_file` reports header facts and geometry without reading
+samples.  Headers are checked against the file size before anything is
+allocated (:mod:`clinometry.io.sniff`); samples are decoded by segyio.
+"""
+
+from .inspect import inspect_file
+from .segy import (
+    DEFAULT_TRACE_SPACING_M,
+    MAX_SAMPLE_INTERVAL,
+    is_3d,
+    iter_sections,
+    line_numbers,
+    read_section,
+    sample_interval_from_headers,
+)
+from .sniff import SegyLayout, decode_text_header, sniff_segy
+
+__all__ = [
+    "read_section",
+    "iter_sections",
+    "inspect_file",
+    "is_3d",
+    "line_numbers",
+    "sniff_segy",
+    "SegyLayout",
+    "decode_text_header",
+    "sample_interval_from_headers",
+    "MAX_SAMPLE_INTERVAL",
+    "DEFAULT_TRACE_SPACING_M",
+]
