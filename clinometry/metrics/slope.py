@@ -1,0 +1,347 @@
+"""Foreset slope, relief, flank gradients and curvature of a margin profile.
+
+All numbers are measured on the depth-converted, basinward-oriented profile
+of :mod:`clinometry.metrics.geometry`, so angles are true angles in degrees
+and lengths are metres.  The definitions (also in the README section "How
+the numbers are defined"):
+
+relief_m
+    Toe depth minus shelf-break depth (break and toe as picked).
+foreset_width_m
+    Horizontal basinward distance from the break to the toe.
+slope_mean_deg
+    ``atan(relief_m / foreset_width_m)``: the mean declivity of the foreset.
+slope_max_deg
+    The steepest *secant* slope over a horizontal base of ``base_length_m``
+    between break and toe.  The base is tied to the data: by default
+    :data:`BASE_LENGTH_TRACES` trace spacings, so a one-sample step in a
+    pick (a few metres) cannot become a slope of tens of degrees, while a
+    foreset a few hundred metres wide is still resolved.  Where break and toe
+    are closer than one base, it is the break-to-toe secant (= mean slope).
+    When break or toe is missing, the window runs to the end of the profile
+    and ``slope_window`` says so: the steepest part of a margin is a real
+    measurement even where the break is not sharp enough to pick (ramps).
+topset_gradient_deg, bottomset_gradient_deg
+    Least-squares gradient of depth against basinward distance over
+    ``flank_length_m`` landward of the break (platform top) and basinward of
+    the toe (basin floor); signed, positive when deepening basinward.
+break_curvature_per_km, toe_curvature_per_km
+    Curvature ``kappa = d'' / (1 + d'^2)^(3/2)`` of a quadratic fitted to the
+    profile within ``curvature_window_m`` of the break / toe, per km;
+    positive when the profile steepens basinward at the break (a rollover)
+    and flattens basinward at the toe, the shapes expected of a margin.
+clinoform_height_m
+    Median over the clinoforms of toe depth minus break depth.
+
+Secant slopes rather than point derivatives are used because picks are
+quantised to one sample vertically and one trace laterally; a secant over a
+stated base is the usual way to report a slope from quantised elevations
+(common practice, no source).
+"""
+
+from __future__ import annotations
+
+import logging
+
+import numpy as np
+
+__all__ = [
+    "BASE_LENGTH_TRACES",
+    "FLANK_LENGTH_TRACES",
+    "CURVATURE_WINDOW_BASES",
+    "slope_metrics",
+    "grid_surface",
+    "secant_slope_max_deg",
+    "base_length_m_for",
+]
+
+logger = logging.getLogger(__name__)
+
+#: base of the maximum-slope secant, in trace spacings (chosen here; common
+#: practice, no source: long enough that one depth sample over the base is
+#: a few degrees at most, short enough to resolve a foreset of ~10 traces)
+BASE_LENGTH_TRACES = 4
+#: length of the topset / bottomset gradient fit, in trace spacings (chosen here)
+FLANK_LENGTH_TRACES = 20
+#: half-width of the curvature fit window, in base lengths (chosen here)
+CURVATURE_WINDOW_BASES = 2.0
+#: fewest points for a gradient fit (3) and a curvature fit (5): one more
+#: than the parameters of the polynomial (common practice, no source)
+_MIN_GRADIENT_POINTS = 3
+_MIN_CURVATURE_POINTS = 5
+
+
+def base_length_m_for(geometry, base_length_m=None) -> float:
+    """The base length of the max-slope secant: given, or ``BASE_LENGTH_TRACES`` trace spacings."""
+    if base_length_m is not None:
+        if not np.isfinite(base_length_m) or base_length_m <= 0:
+            raise ValueError(f"{geometry.name}: base_length_m must be > 0, got {base_length_m!r}")
+        return float(base_length_m)
+    return BASE_LENGTH_TRACES * geometry.trace_spacing_m
+
+
+def grid_surface(surface, step_m: float):
+    """Resample a surface onto a uniform basinward grid.
+
+    Parameters
+    ----------
+    surface : SurfaceGeometry
+    step_m : float, m
+
+    Returns
+    -------
+    xs : numpy.ndarray, shape (n,), m
+        ``xs[0]`` is the most landward point, spacing ``step_m``.
+    ds : numpy.ndarray, shape (n,), m
+        Depth, linearly interpolated.
+
+    Examples
+    --------
+    >>> from types import SimpleNamespace
+    >>> s = SimpleNamespace(basinward_m=np.array([0.0, 30.0]), depth_m=np.array([0.0, 3.0]))
+    >>> xs, ds = grid_surface(s, 10.0)
+    >>> xs.tolist(), ds.tolist()
+    ([0.0, 10.0, 20.0, 30.0], [0.0, 1.0, 2.0, 3.0])
+    """
+    b0, b1 = float(surface.basinward_m[0]), float(surface.basinward_m[-1])
+    n = int(np.floor((b1 - b0) / step_m + 1e-9)) + 1
+    xs = b0 + step_m * np.arange(n)
+    ds = np.interp(xs, surface.basinward_m, surface.depth_m)
+    return xs, ds
+
+
+def _interp_rows(x0, step, ds, pos):
+    """Row-wise linear interpolation on a uniform grid: ds (..., n), pos (...)."""
+    n = ds.shape[-1]
+    f = np.clip((np.asarray(pos, dtype=float) - x0) / step, 0.0, n - 1.0)
+    i = np.minimum(np.floor(f).astype(np.int64), n - 2) if n > 1 else np.zeros(np.shape(f), np.int64)
+    w = f - i
+    lo = np.take_along_axis(ds, i[..., None], axis=-1)[..., 0]
+    hi = np.take_along_axis(ds, np.minimum(i + 1, n - 1)[..., None], axis=-1)[..., 0]
+    return lo * (1 - w) + hi * w
+
+
+def secant_slope_max_deg(xs, ds, lo_m, hi_m, base_m):
+    """Steepest secant slope over a base length within ``[lo_m, hi_m]``.
+
+    Vectorised over leading dimensions (Monte-Carlo draws).
+
+    Parameters
+    ----------
+    xs : numpy.ndarray, shape (n,), m
+        Uniform basinward grid.
+    ds : numpy.ndarray, shape (..., n), m
+        Depth on that grid (positive down).
+    lo_m, hi_m : float or numpy.ndarray, shape (...), m
+        Window (break and toe positions).
+    base_m : float, m
+        Base length; rounded to a whole number of grid steps (at least 1).
+
+    Returns
+    -------
+    numpy.ndarray, shape (...), degrees
+        Positive when deepening basinward.  Where the window is shorter than
+        one base, the secant from ``lo_m`` to ``hi_m``; NaN where
+        ``hi_m <= lo_m``.
+
+    Examples
+    --------
+    >>> xs = np.arange(0.0, 1001.0, 10.0)
+    >>> ds = np.where(xs < 500, 0.0, (xs - 500) * np.tan(np.radians(10)))
+    >>> round(float(secant_slope_max_deg(xs, ds, 0.0, 1000.0, 40.0)), 6)
+    10.0
+    """
+    xs = np.asarray(xs, dtype=float)
+    ds = np.asarray(ds, dtype=float)
+    lo = np.asarray(lo_m, dtype=float)
+    hi = np.asarray(hi_m, dtype=float)
+    step = float(xs[1] - xs[0]) if xs.size > 1 else 1.0
+    k = max(1, int(round(base_m / step)))
+    eps = 1e-6 * step
+    if xs.size > k:
+        s = (ds[..., k:] - ds[..., :-k]) / (k * step)
+        ok = (xs[:-k] >= lo[..., None] - eps) & (xs[k:] <= hi[..., None] + eps)
+        best = np.max(np.where(ok, s, -np.inf), axis=-1)
+    else:
+        best = np.full(np.broadcast_shapes(ds.shape[:-1], lo.shape, hi.shape), -np.inf)
+    # window shorter than one base: the break-to-toe secant
+    d_lo = _interp_rows(xs[0], step, ds, np.broadcast_to(lo, ds.shape[:-1]))
+    d_hi = _interp_rows(xs[0], step, ds, np.broadcast_to(hi, ds.shape[:-1]))
+    with np.errstate(divide="ignore", invalid="ignore"):
+        chord = (d_hi - d_lo) / (hi - lo)
+    best = np.where(np.isfinite(best), best, chord)
+    best = np.where(hi > lo, best, np.nan)
+    return np.degrees(np.arctan(best))
+
+
+def _gradient_deg(b, d):
+    """Least-squares gradient of depth vs distance, in degrees (positive deepening basinward)."""
+    slope = np.polyfit(b - b.mean(), d, 1)[0]
+    return float(np.degrees(np.arctan(slope)))
+
+
+def _curvature_per_km(b, d, at_m):
+    """Curvature of a quadratic fit d(b) at ``at_m``, per km (d'' / (1 + d'^2)^1.5)."""
+    c2, c1, _ = np.polyfit(b - at_m, d, 2)
+    return float(2.0 * c2 / (1.0 + c1 * c1) ** 1.5 * 1000.0)
+
+
+def _window(surface, lo, hi):
+    m = (surface.basinward_m >= lo - 1e-9) & (surface.basinward_m <= hi + 1e-9)
+    return surface.basinward_m[m], surface.depth_m[m]
+
+
+def _foreset(geometry, surface, base_m, label):
+    """slope max / mean, relief, width of one surface; dict of values and missing reasons."""
+    values, missing = {}, {}
+    brk, toe = surface.shelf_break, surface.toe
+    xs, ds = grid_surface(surface, geometry.trace_spacing_m / 2.0)
+    lo = brk["basinward_m"] if brk else float(surface.basinward_m[0])
+    hi = toe["basinward_m"] if toe else float(surface.basinward_m[-1])
+    window = "break_to_toe" if brk and toe else (
+        "break_to_profile_end" if brk else "profile_start_to_toe" if toe else "whole_profile")
+    if brk and toe and toe["basinward_m"] <= brk["basinward_m"]:
+        reason = (f"{label}: toe at trace {toe['trace']} is not basinward of the break at trace {brk['trace']}")
+        for k in ("slope_max_deg", "slope_mean_deg", "relief_m", "foreset_width_m"):
+            missing[k] = reason
+        return values, missing, window
+    smax = float(secant_slope_max_deg(xs, ds, lo, hi, base_m))
+    if np.isfinite(smax):
+        values["slope_max_deg"] = smax
+    else:
+        missing["slope_max_deg"] = f"{label}: profile too short to measure a slope"
+    if brk and toe:
+        relief = toe["depth_m"] - brk["depth_m"]
+        width = toe["basinward_m"] - brk["basinward_m"]
+        values["relief_m"] = float(relief)
+        values["foreset_width_m"] = float(width)
+        values["slope_mean_deg"] = float(np.degrees(np.arctan2(relief, width)))
+    else:
+        why = "; ".join(r for r in (surface.break_reason if not brk else "", surface.toe_reason if not toe else "") if r)
+        for k in ("slope_mean_deg", "relief_m", "foreset_width_m"):
+            missing[k] = f"{label}: {why}"
+    return values, missing, window
+
+
+def slope_metrics(
+    geometry,
+    *,
+    base_length_m: float | None = None,
+    flank_length_m: float | None = None,
+    curvature_window_m: float | None = None,
+) -> dict:
+    """Foreset slope (max, mean), relief, foreset width, flank gradients and curvature, per clinoform too.
+
+    Parameters
+    ----------
+    geometry : MarginGeometry
+        From :func:`clinometry.metrics.geometry.margin_geometry`.
+    base_length_m : float, m, optional
+        Base of the maximum-slope secant; default
+        :data:`BASE_LENGTH_TRACES` trace spacings.
+    flank_length_m : float, m, optional
+        Length of the topset and bottomset fits; default
+        :data:`FLANK_LENGTH_TRACES` trace spacings.
+    curvature_window_m : float, m, optional
+        Half-width of the curvature fit around break and toe; default
+        :data:`CURVATURE_WINDOW_BASES` base lengths.
+
+    Returns
+    -------
+    dict
+        Named values (see the module docstring), plus ``"clinoforms"`` (list
+        of dicts, oldest to youngest, with ``horizon_id``, ``break``,
+        ``toe``, ``slope_max_deg``, ``slope_mean_deg``, ``height_m``) and
+        ``"missing"`` (name -> reason).
+
+    Notes
+    -----
+    ``slope_mean_deg = atan(relief / width)``; ``slope_max_deg`` is the
+    steepest secant over ``base_length_m``; curvature of a plane curve
+    ``kappa = y'' / (1 + y'^2)^(3/2)`` (standard calculus, e.g. Kreyszig,
+    Advanced Engineering Mathematics; from memory).
+
+    References
+    ----------
+    .. [1] Kreyszig, E. (2011). Advanced Engineering Mathematics, 10th ed.,
+       Wiley (curvature of a plane curve; from memory).
+    """
+    base = base_length_m_for(geometry, base_length_m)
+    flank = float(flank_length_m) if flank_length_m is not None else FLANK_LENGTH_TRACES * geometry.trace_spacing_m
+    cwin = float(curvature_window_m) if curvature_window_m is not None else CURVATURE_WINDOW_BASES * base
+    prof = geometry.profile
+    values, missing, window = _foreset(geometry, prof, base, "margin profile")
+    values["slope_base_length_m"] = base
+    values["slope_window"] = window
+    brk, toe = prof.shelf_break, prof.toe
+    if brk:
+        values["break_depth_m"] = brk["depth_m"]
+    if toe:
+        values["toe_depth_m"] = toe["depth_m"]
+
+    # topset: platform top (or the profile) landward of the break
+    if brk:
+        top = geometry.platform_top or prof
+        b, d = _window(top, brk["basinward_m"] - flank, brk["basinward_m"])
+        if b.size >= _MIN_GRADIENT_POINTS and np.ptp(b) > 0:
+            values["topset_gradient_deg"] = _gradient_deg(b, d)
+        else:
+            missing["topset_gradient_deg"] = (
+                f"only {b.size} platform-top point(s) within {flank:.0f} m landward of the break; need {_MIN_GRADIENT_POINTS}")
+        b, d = _window(prof, brk["basinward_m"] - cwin, brk["basinward_m"] + cwin)
+        if b.size >= _MIN_CURVATURE_POINTS:
+            values["break_curvature_per_km"] = _curvature_per_km(b, d, brk["basinward_m"])
+        else:
+            missing["break_curvature_per_km"] = (
+                f"only {b.size} profile point(s) within {cwin:.0f} m of the break; need {_MIN_CURVATURE_POINTS}")
+    else:
+        for k in ("topset_gradient_deg", "break_curvature_per_km"):
+            missing[k] = prof.break_reason
+    if toe:
+        b, d = _window(prof, toe["basinward_m"], toe["basinward_m"] + flank)
+        if b.size >= _MIN_GRADIENT_POINTS and np.ptp(b) > 0:
+            values["bottomset_gradient_deg"] = _gradient_deg(b, d)
+        else:
+            missing["bottomset_gradient_deg"] = (
+                f"only {b.size} profile point(s) within {flank:.0f} m basinward of the toe; need {_MIN_GRADIENT_POINTS}")
+        b, d = _window(prof, toe["basinward_m"] - cwin, toe["basinward_m"] + cwin)
+        if b.size >= _MIN_CURVATURE_POINTS:
+            values["toe_curvature_per_km"] = -_curvature_per_km(b, d, toe["basinward_m"])
+        else:
+            missing["toe_curvature_per_km"] = (
+                f"only {b.size} profile point(s) within {cwin:.0f} m of the toe; need {_MIN_CURVATURE_POINTS}")
+    else:
+        for k in ("bottomset_gradient_deg", "toe_curvature_per_km"):
+            missing[k] = prof.toe_reason
+
+    clinoforms = []
+    heights = []
+    for c in geometry.clinoforms:
+        cv, cm, cwin_name = _foreset(geometry, c, base, f"clinoform {c.horizon_id}")
+        entry = {
+            "horizon_id": c.horizon_id,
+            "break": geometry.pick_point(c.shelf_break),
+            "toe": geometry.pick_point(c.toe),
+            "slope_max_deg": cv.get("slope_max_deg") if c.shelf_break and c.toe else None,
+            "slope_mean_deg": cv.get("slope_mean_deg"),
+            "height_m": cv.get("relief_m"),
+            "width_m": cv.get("foreset_width_m"),
+        }
+        cmiss = {k: v for k, v in cm.items()}
+        if entry["slope_max_deg"] is None and "slope_max_deg" not in cmiss:
+            cmiss["slope_max_deg"] = "; ".join(
+                r for r in (c.break_reason if not c.shelf_break else "", c.toe_reason if not c.toe else "") if r)
+        if cmiss:
+            entry["missing"] = {("height_m" if k == "relief_m" else "width_m" if k == "foreset_width_m" else k): v
+                                for k, v in cmiss.items()}
+        if entry["height_m"] is not None:
+            heights.append(entry["height_m"])
+        clinoforms.append(entry)
+    if heights:
+        values["clinoform_height_m"] = float(np.median(heights))
+    else:
+        missing["clinoform_height_m"] = (
+            "no clinoforms picked" if not geometry.clinoforms else "no clinoform has both a break and a toe")
+    values["clinoforms"] = clinoforms
+    values["missing"] = missing
+    return values
