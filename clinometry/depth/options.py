@@ -1,0 +1,237 @@
+"""Build a velocity model from command-line-like options, and read velocity tables.
+
+One function, :func:`velocity_from_options`, turns what a user typed (a
+constant, a linear gradient, a file) into a model, so every command and the
+pipeline make the same decision in the same way.  When a two-way-time section
+comes with no velocity at all, a constant ``DEFAULT_VELOCITY_M_S`` is used
+and the model carries a ``fallback`` note that the pipeline copies into the
+result: one record per result rather than one warning per line of a batch.
+"""
+
+from __future__ import annotations
+
+import logging
+import os
+import re
+from collections.abc import Mapping, Sequence
+
+from ..errors import VelocityError
+from ..section import DOMAINS, section_name
+from .models import (
+    DEFAULT_VELOCITY_M_S,
+    DEFAULT_VELOCITY_NOTE,
+    ConstantVelocity,
+    LinearVelocity,
+    TableVelocity,
+    VelocityModel,
+    velocity_from_dict,
+)
+from .section_velocity import SectionVelocity
+
+logger = logging.getLogger(__name__)
+
+__all__ = ["velocity_from_options", "read_velocity_table", "is_segy_file", "VELOCITY_KINDS"]
+
+VELOCITY_KINDS = ("interval", "rms")
+_SEGY_SUFFIXES = (".sgy", ".segy", ".seg-y", ".seg")
+_TABLE_SUFFIXES = (".csv", ".txt", ".dat", ".tsv", ".tbl", ".vel")
+#: bytes read to tell a text table from SEG-Y: the SEG-Y rev 1 textual header
+#: is 3200 bytes and the binary header 400 more (SEG Technical Standards
+#: Committee 2002, SEG-Y rev 1, section 3)
+_SNIFF_BYTES = 3600
+_SPLIT = re.compile(r"[,;\s]+")
+
+
+def is_segy_file(path) -> bool:
+    """True when ``path`` looks like SEG-Y rather than a text table.
+
+    Decided by suffix (``.sgy``, ``.segy`` ...) and, for other names, by
+    whether the first 3600 bytes (textual + binary header in SEG-Y rev 1)
+    are all printable text (common practice, no source).
+    """
+    name = os.fspath(path).lower()
+    if name.endswith(_SEGY_SUFFIXES):
+        return True
+    if name.endswith(_TABLE_SUFFIXES):
+        return False
+    with open(path, "rb") as fh:
+        head = fh.read(_SNIFF_BYTES)
+    printable = set(range(32, 127)) | {9, 10, 13}
+    return not all(b in printable for b in head)
+
+
+def read_velocity_table(path, *, kind: str = "interval") -> TableVelocity:
+    """Read a two-column text/CSV table of two-way time (ms) and velocity (m/s).
+
+    Parameters
+    ----------
+    path : str or os.PathLike
+        Text file; columns separated by commas, semicolons, tabs or spaces;
+        ``#`` starts a comment; one header line of column names is allowed.
+    kind : {"interval", "rms"}
+
+    Returns
+    -------
+    TableVelocity
+
+    Raises
+    ------
+    VelocityError
+        No rows, a row without exactly two numbers (the message names file
+        and line), or any check of :class:`TableVelocity`.
+    OSError
+        The file cannot be opened.
+
+    Examples
+    --------
+    >>> import tempfile, pathlib
+    >>> p = pathlib.Path(tempfile.mkdtemp()) / "v.csv"
+    >>> _ = p.write_text("twt_ms,velocity_m_s\\n0,1800\\n1000,2600\\n")
+    >>> read_velocity_table(p).describe()
+    'interval velocity table from v.csv: 2 rows, 0-1000 ms, interval 1800-2600 m/s'
+    """
+    fname = os.path.basename(os.fspath(path))
+    times, vels = [], []
+    with open(path, encoding="utf-8", errors="replace") as fh:
+        for lineno, raw in enumerate(fh, start=1):
+            line = raw.split("#", 1)[0].strip()
+            if not line:
+                continue
+            cols = [c for c in _SPLIT.split(line) if c]
+            try:
+                vals = [float(c) for c in cols]
+            except ValueError as err:
+                if not times and all(re.match(r"^[A-Za-z_]", c) for c in cols):
+                    continue  # a header line of column names
+                raise VelocityError(
+                    f"{fname} line {lineno}: {line!r} is not two numbers (two-way time in ms, velocity in m/s)"
+                ) from err
+            if len(vals) != 2:
+                raise VelocityError(
+                    f"{fname} line {lineno}: expected 2 columns (two-way time ms, velocity m/s), found {len(vals)}"
+                )
+            times.append(vals[0])
+            vels.append(vals[1])
+    if not times:
+        raise VelocityError(f"{fname}: no velocity rows found; expected lines of 'twt_ms, velocity_m_s'")
+    model = TableVelocity(times, vels, kind, source=fname)
+    logger.info("velocity: %s", model.describe())
+    return model
+
+
+def velocity_from_options(
+    velocity=None,
+    velocity_linear=None,
+    velocity_file=None,
+    domain=None,
+    section=None,
+    *,
+    velocity_kind: str = "interval",
+):
+    """Choose the velocity model from command-line-like options.
+
+    Parameters
+    ----------
+    velocity : float, VelocityModel or mapping, optional
+        Constant velocity in m/s; an existing model is returned as is; a
+        ``to_dict()`` mapping is rebuilt.
+    velocity_linear : (float, float), optional
+        ``(v0_m_s, k_per_s)`` of ``v(z) = v0 + k z``.
+    velocity_file : str or os.PathLike, optional
+        Velocity SEG-Y (section or 3D volume, matched to ``section``) or a
+        two-column text table of two-way time (ms) and velocity (m/s).
+    domain : {"twt", "depth"}, optional
+        Domain of the section; default ``section.attrs["domain"]``, else
+        ``"twt"``.
+    section : xarray.DataArray, optional
+        The seismic section; needed for a velocity SEG-Y.
+    velocity_kind : {"interval", "rms"}
+        How to read ``velocity_file`` velocities.
+
+    Returns
+    -------
+    VelocityModel or None
+        None for a depth section with no velocity option.  For a TWT section
+        with no option, ``ConstantVelocity(DEFAULT_VELOCITY_M_S)`` whose
+        ``fallback`` says so (recorded in results).
+
+    Raises
+    ------
+    VelocityError
+        More than one option, options for a depth section, a domain that
+        contradicts the section, a SEG-Y file without a section, a missing
+        file, or any model check.
+
+    Examples
+    --------
+    >>> velocity_from_options(velocity_linear=(1800, 0.4)).describe()
+    'linear velocity v(z) = 1800 m/s + 0.4 1/s * z'
+    >>> velocity_from_options(domain="twt").to_dict()["velocity_m_s"]
+    3000.0
+    >>> velocity_from_options(domain="depth") is None
+    True
+    """
+    given = [n for n, v in (("velocity", velocity), ("velocity_linear", velocity_linear), ("velocity_file", velocity_file)) if v is not None]
+    if len(given) > 1:
+        raise VelocityError(f"give only one velocity option, got {' and '.join(given)}")
+    if velocity_kind not in VELOCITY_KINDS:
+        raise VelocityError(f"velocity kind must be one of {VELOCITY_KINDS}, got {velocity_kind!r}")
+    sec_domain = section.attrs.get("domain") if section is not None else None
+    if domain is None:
+        domain = sec_domain or "twt"
+    if domain not in DOMAINS:
+        raise VelocityError(f"domain must be one of {DOMAINS}, got {domain!r}")
+    if sec_domain is not None and sec_domain != domain:
+        raise VelocityError(
+            f"{section_name(section)}: domain {domain!r} was given but the section is in {sec_domain!r}; "
+            "read the file with the same domain"
+        )
+    if velocity_kind != "interval" and velocity_file is None:
+        raise VelocityError(f"velocity kind {velocity_kind!r} applies to a velocity file only; drop it or give --velocity-file")
+    if domain == "depth":
+        if given:
+            where = section_name(section) if section is not None else "the section"
+            raise VelocityError(
+                f"{where} is in depth, so {given[0].replace('_', '-')} is not used; drop it, "
+                "or read the file as two-way time (--domain twt)"
+            )
+        return None
+
+    if isinstance(velocity, VelocityModel):
+        return velocity
+    if isinstance(velocity, Mapping):
+        return velocity_from_dict(velocity)
+    if velocity is not None:
+        try:
+            v = float(velocity)
+        except (TypeError, ValueError) as err:
+            raise VelocityError(f"velocity must be a number in m/s, got {velocity!r}") from err
+        model = ConstantVelocity(v)
+    elif velocity_linear is not None:
+        if isinstance(velocity_linear, (str, bytes)) or not isinstance(velocity_linear, Sequence) or len(velocity_linear) != 2:
+            raise VelocityError(f"velocity_linear needs two numbers (v0 in m/s, k in 1/s), got {velocity_linear!r}")
+        try:
+            v0, k = (float(a) for a in velocity_linear)
+        except (TypeError, ValueError) as err:
+            raise VelocityError(f"velocity_linear needs two numbers (v0 in m/s, k in 1/s), got {velocity_linear!r}") from err
+        model = LinearVelocity(v0, k)
+    elif velocity_file is not None:
+        model = _model_from_file(velocity_file, section, velocity_kind)
+    else:
+        model = ConstantVelocity(DEFAULT_VELOCITY_M_S, fallback=DEFAULT_VELOCITY_NOTE)
+    logger.info("velocity model: %s", model.describe())
+    return model
+
+
+def _model_from_file(path, section, kind):
+    fname = os.path.basename(os.fspath(path))
+    if not os.path.isfile(path):
+        raise VelocityError(f"{fname}: velocity file not found (looked for {os.fspath(path)!r}); check the path")
+    if is_segy_file(path):
+        if section is None:
+            raise VelocityError(
+                f"{fname}: a velocity SEG-Y is matched trace by trace to the seismic, so the section is needed "
+                "(pass section=)"
+            )
+        return SectionVelocity.from_segy(path, section=section, kind=kind)
+    return read_velocity_table(path, kind=kind)
