@@ -1,14 +1,116 @@
-"""clinometry batch (being built)."""
+"""Analyze many lines: SEG-Y files, folders and globs, every inline of 3D volumes.
 
-from ..errors import ClinometryError
+Runs on a local process pool over all cores by default, or on a running
+Dask cluster with --scheduler tcp://host:port (same results).  Writes into
+the output folder
+  <stem>.json, <stem>.horizons.csv, <stem>.png   per line (as clinometry analyze)
+  margins.csv (and margins.parquet with pyarrow)  one row per margin
+  errors.csv                                      one row per failed line
+  summary.png                                     slope and relief per family
+  map.png                                         break points in x-y (3D volumes)
+  index.html                                      review page (open in a browser)
+A bad file becomes a row of errors.csv and the batch goes on.  --resume skips
+lines whose files are complete and valid.  Exit code 0 when every line was
+analysed, 1 when some failed, 2 when nothing could run.
 
-DESCRIPTION = "batch (being built)"
-EXAMPLE = "clinometry batch --help"
+The numbers support interpretation only: do not base drilling or storage
+decisions on them alone; follow local regulations and licensed practice.
+"""
+
+from __future__ import annotations
+
+import logging
+import sys
+
+DESCRIPTION = "analyze many lines (files, folders, globs, 3D inlines) on all cores or a Dask cluster"
+EXAMPLE = "clinometry batch survey/*.sgy volume.sgy --inlines 100:300:10 --velocity 2800 --out review/"
+
+__all__ = ["DESCRIPTION", "EXAMPLE", "configure", "run", "add_batch_options", "batch_kwargs", "report"]
+
+logger = logging.getLogger(__name__)
 
 
-def configure(parser):
-    pass
+def _positive_int(text):
+    import argparse
+
+    try:
+        v = int(text)
+    except ValueError:
+        raise argparse.ArgumentTypeError(f"expected a whole number, got {text!r}") from None
+    if v < 1:
+        raise argparse.ArgumentTypeError(f"expected 1 or more, got {v}")
+    return v
 
 
-def run(args):
-    raise ClinometryError("'batch' is not available yet in this build")
+def add_batch_options(parser) -> None:
+    """Options shared by ``batch`` and ``demo`` (everything except the inputs)."""
+    from ._velocity import add_velocity_options
+
+    parser.add_argument("--out", required=True, metavar="DIR", help="output folder (created if missing)")
+    parser.add_argument("--workers", type=_positive_int, metavar="N",
+                        help="local worker processes (default: every core)")
+    parser.add_argument("--scheduler", metavar="ADDRESS",
+                        help="run on an existing Dask cluster, e.g. tcp://10.0.0.5:8786 (needs dask.distributed)")
+    parser.add_argument("--resume", action="store_true",
+                        help="skip lines whose JSON, horizons CSV and PNG are complete and valid")
+    add_velocity_options(parser)
+    parser.add_argument("--no-uncertainty", action="store_true",
+                        help="skip the Monte-Carlo P10/P50/P90 of slope and relief")
+    parser.add_argument("--seed", type=int, default=0, help="seed of the random draws (default: %(default)s)")
+    parser.add_argument("--no-plot", action="store_true", help="no QC, summary or map figures")
+    parser.add_argument("--quiet", action="store_true", help="no progress bar")
+
+
+def configure(parser) -> None:
+    """Add the options of ``clinometry batch`` to ``parser``."""
+    parser.add_argument("paths", nargs="+", metavar="PATH", help="SEG-Y files, folders or glob patterns")
+    parser.add_argument("--inlines", metavar="all|A:B:STEP",
+                        help="inlines of 3D volumes to analyze (default: all)")
+    parser.add_argument("--crosslines", metavar="all|A:B:STEP",
+                        help="crosslines of 3D volumes to analyze (default: none)")
+    parser.add_argument("--thresholds", metavar="FILE.toml",
+                        help="TOML file overriding the classification thresholds")
+    add_batch_options(parser)
+
+
+def batch_kwargs(args) -> dict:
+    """Keyword arguments of :func:`clinometry.batch.run_batch` from parsed options."""
+    return dict(
+        workers=args.workers,
+        scheduler=args.scheduler,
+        resume=args.resume,
+        velocity=getattr(args, "velocity", None),
+        velocity_linear=getattr(args, "velocity_linear", None),
+        velocity_file=getattr(args, "velocity_file", None),
+        domain=getattr(args, "domain", None),
+        uncertainty=not args.no_uncertainty,
+        seed=args.seed,
+        plot=not args.no_plot,
+        quiet=args.quiet,
+    )
+
+
+def report(summary) -> int:
+    """Print what a batch did (stdout; failures also on stderr) and return the exit code."""
+    failed = summary.n_failed + summary.n_problems
+    print(
+        f"{summary.n_tasks} line(s): {summary.n_ok} analysed, {summary.n_skipped} already complete, "
+        f"{failed} failed; {summary.n_margins} margin(s) in {summary.files.get('margins_csv')}"
+    )
+    print(f"review page: {summary.files.get('index_html')}")
+    code = summary.exit_code
+    if code == 2:
+        print(f"clinometry: error: nothing could run; see {summary.files.get('errors_csv')}", file=sys.stderr)
+    elif code == 1:
+        print(f"clinometry: {failed} line(s) or input(s) failed; see {summary.files.get('errors_csv')}",
+              file=sys.stderr)
+    return code
+
+
+def run(args) -> int:
+    """Run ``clinometry batch``; exit code 0 all done, 1 some failed, 2 nothing ran."""
+    from ..batch import run_batch
+
+    summary = run_batch(args.paths, args.out, inlines=args.inlines, crosslines=args.crosslines,
+                        thresholds=args.thresholds, **batch_kwargs(args))
+    return report(summary)
