@@ -9,9 +9,11 @@ Ricker wavelet), measure its true break, toe, slope and trajectory
 """
 
 from .growth import GrowthParameters, Stratigraphy, grow, production_rate
+from .cube import make_cube, write_cube
 from .lines import make_line
 from .scenarios import SCENARIOS, Scenario, get_scenario
 from .seismic import SynthVelocity, ricker
+from .write import truth_path, write_line, write_segy
 
 __all__ = [
     "GrowthParameters",
@@ -19,6 +21,11 @@ __all__ = [
     "grow",
     "production_rate",
     "make_line",
+    "make_cube",
+    "write_line",
+    "write_cube",
+    "write_segy",
+    "truth_path",
     "SCENARIOS",
     "Scenario",
     "get_scenario",

@@ -207,7 +207,8 @@ def reflectivity(impedance):
 def bandlimited_noise(shape, *, wavelet, rng):
     """White Gaussian noise filtered by ``wavelet`` along the last axis."""
     white = rng.standard_normal(shape)
-    return fftconvolve(white, wavelet[None, :], mode="same", axes=-1)
+    w = np.reshape(wavelet, (1,) * (len(shape) - 1) + (-1,))
+    return fftconvolve(white, w, mode="same", axes=-1)
 
 
 def render(depth_surfaces_m, facies, *, z_out, domain, velocity, peak_hz, rng,
