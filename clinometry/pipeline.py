@@ -37,9 +37,27 @@ from .picking.picks import Horizon, Picks
 from .result import Result
 from .section import check_section, section_name
 
-__all__ = ["analyze", "analyze_full", "measure", "read_horizon_csv", "HORIZON_MAX_OFFSET_TRACES"]
+__all__ = [
+    "analyze",
+    "analyze_full",
+    "measure",
+    "read_horizon_csv",
+    "CAUTIONS",
+    "HORIZON_MAX_OFFSET_TRACES",
+    "USER_HORIZON_SMOOTHING_TRACES",
+    "USER_HORIZON_MIN_RELIEF_M",
+]
 
 logger = logging.getLogger(__name__)
+
+#: Gaussian smoothing (sigma) of a user horizon before curvature, in trace
+#: spacings: enough to calm single-trace jitter of hand picks, short enough
+#: to keep the bends (project choice, no source)
+USER_HORIZON_SMOOTHING_TRACES = 3.0
+
+#: smallest break-to-toe relief that makes a leg of a user horizon a margin,
+#: m (project choice, no source)
+USER_HORIZON_MIN_RELIEF_M = 20.0
 
 #: how far (in median trace spacings) an x/y horizon point may lie from the
 #: nearest trace before it is refused: one spacing (common practice, no source)
@@ -96,34 +114,26 @@ def _load_section(path_or_section, *, domain, inline, crossline):
     return section, path
 
 
-def _velocity_model(section, *, velocity, velocity_linear, velocity_file):
-    """Velocity model for the section; (model, model dict with fallback flag, fallback text)."""
-    from .depth import DEFAULT_VELOCITY_M_S, velocity_from_options
+def _velocity_model(section, *, velocity, velocity_linear, velocity_file, velocity_kind):
+    """Velocity model for the section: (model or None, model dict, fallback note or None)."""
+    from .depth import velocity_from_options
 
-    domain = section.attrs["domain"]
-    given = not (velocity is None and velocity_linear is None and velocity_file is None)
-    if hasattr(velocity, "depth_m") and hasattr(velocity, "to_dict"):
-        model = velocity  # a velocity model object
-    else:
-        model = velocity_from_options(
-            velocity=velocity,
-            velocity_linear=velocity_linear,
-            velocity_file=velocity_file,
-            domain=domain,
-            section=section,
-        )
-    fallback = None
+    model = velocity_from_options(
+        velocity=velocity,
+        velocity_linear=velocity_linear,
+        velocity_file=velocity_file,
+        domain=section.attrs["domain"],
+        section=section,
+        velocity_kind=velocity_kind,
+    )
     if model is None:
-        vdict = {"model": "none", "reason": "depth-domain section: no conversion needed"}
-    else:
-        vdict = dict(model.to_dict())
-    if domain == "twt" and not given:
-        fallback = (
-            f"no velocity given: constant {DEFAULT_VELOCITY_M_S:g} m/s assumed for time-depth "
-            "conversion; depths, relief and slope angles scale with this guess"
-        )
+        return None, {"model": "none", "reason": "depth-domain section: no conversion needed",
+                      "default_fallback": False}, None
+    vdict = dict(model.to_dict())
+    fallback = getattr(model, "fallback", None) or None
+    if fallback:
         logger.info("%s: %s", section_name(section), fallback)
-    vdict["default_fallback"] = fallback is not None
+    vdict["default_fallback"] = bool(fallback)
     return model, vdict, fallback
 
 
@@ -196,6 +206,7 @@ def analyze_full(
     velocity=None,
     velocity_linear=None,
     velocity_file=None,
+    velocity_kind="interval",
     domain=None,
     inline=None,
     crossline=None,
@@ -220,7 +231,8 @@ def analyze_full(
     """
     section, path = _load_section(path_or_section, domain=domain, inline=inline, crossline=crossline)
     model, vdict, fallback = _velocity_model(
-        section, velocity=velocity, velocity_linear=velocity_linear, velocity_file=velocity_file
+        section, velocity=velocity, velocity_linear=velocity_linear, velocity_file=velocity_file,
+        velocity_kind=velocity_kind,
     )
     if horizons is not None:
         horizon = horizons
@@ -248,6 +260,7 @@ def analyze(
     velocity=None,
     velocity_linear=None,
     velocity_file=None,
+    velocity_kind="interval",
     domain=None,
     inline=None,
     crossline=None,
@@ -272,6 +285,9 @@ def analyze(
     velocity_file : str or os.PathLike, optional
         Velocity table or velocity SEG-Y (see
         :func:`clinometry.depth.velocity_from_options`).
+    velocity_kind : {"interval", "rms"}
+        How the velocities of ``velocity_file`` are to be read (RMS are
+        converted with Dix 1955).
     domain : {"twt", "depth"}, optional
         Domain of the file's z axis (default "twt" for files; a section's
         own ``domain`` attr otherwise).
@@ -317,6 +333,7 @@ def analyze(
         velocity=velocity,
         velocity_linear=velocity_linear,
         velocity_file=velocity_file,
+        velocity_kind=velocity_kind,
         domain=domain,
         inline=inline,
         crossline=crossline,
@@ -336,6 +353,7 @@ def measure(
     velocity=None,
     velocity_linear=None,
     velocity_file=None,
+    velocity_kind="interval",
     classifier="rules",
     thresholds=None,
     uncertainty=True,
@@ -351,7 +369,7 @@ def measure(
         and ``z`` (in the section's units: ms TWT or m depth).  x/y points
         are matched to the nearest trace (see :func:`read_horizon_csv`).
     section : xarray.DataArray, dims ("trace", "z"), or SEG-Y path
-    velocity, velocity_linear, velocity_file, classifier, thresholds, uncertainty, seed
+    velocity, velocity_linear, velocity_file, velocity_kind, classifier, thresholds, uncertainty, seed
         As for :func:`analyze`.
 
     Returns
@@ -373,6 +391,7 @@ def measure(
         velocity=velocity,
         velocity_linear=velocity_linear,
         velocity_file=velocity_file,
+        velocity_kind=velocity_kind,
         classifier=classifier,
         thresholds=thresholds,
         uncertainty=uncertainty,
@@ -381,19 +400,60 @@ def measure(
     )[0]
 
 
-def _picks_from_horizon(horizon: Horizon, section, model) -> Picks:
-    """Margin picks on a user horizon with the picking step's margin functions."""
-    from .picking.margins import margins_from_horizon
+def _picks_from_horizon(horizon: Horizon, section, model, *, smoothing_m=None, min_relief_m=None) -> Picks:
+    """Margin picks on a user horizon with the picking step's margin functions.
+
+    The horizon is interpolated linearly onto every trace of its span (the
+    interpreter's line between picks), converted to depth with the run's
+    velocity model, and handed to
+    :func:`clinometry.picking.margins.profile_candidates`, the same break /
+    toe / direction analysis the automatic picker applies to each tracked
+    surface.  Each accepted candidate becomes one margin whose only
+    clinoform is the horizon itself.
+    """
+    from .picking.margins import profile_candidates, to_depth
+    from .picking.picks import ClinoformPicks, MarginPicks, PickPoint
 
     horizon = replace(horizon, role="user") if horizon.role != "user" else horizon
-    margins, notes = margins_from_horizon(horizon, section, velocity=model)
-    return Picks(
-        horizons=(horizon,),
-        margins=tuple(margins),
-        picker="user_horizon",
-        parameters={"horizon_id": horizon.id, "n_points": len(horizon)},
-        notes=tuple(notes),
-    )
+    traces = np.arange(int(horizon.trace[0]), int(horizon.trace[-1]) + 1)
+    z = np.interp(traces, horizon.trace, horizon.z)
+    dist = section["distance"].values[traces].astype(float)
+    spacing = float(np.median(np.abs(np.diff(dist)))) if traces.size > 1 else 0.0
+    if smoothing_m is None:
+        smoothing_m = USER_HORIZON_SMOOTHING_TRACES * spacing
+    if min_relief_m is None:
+        min_relief_m = USER_HORIZON_MIN_RELIEF_M
+    depth = to_depth(section, traces, z, model)
+    params = {"horizon_id": horizon.id, "n_points": len(horizon), "smoothing_m": float(smoothing_m),
+              "min_relief_m": float(min_relief_m)}
+    cands = profile_candidates(dist, depth, np.ones(traces.size), path_rank=0,
+                               smoothing_m=float(smoothing_m), min_relief_m=float(min_relief_m))
+    margins = []
+    for c in cands:
+        brk = PickPoint(int(traces[c.shelf_break]), float(z[c.shelf_break])) if c.shelf_break is not None else None
+        toe = PickPoint(int(traces[c.toe]), float(z[c.toe])) if c.toe is not None else None
+        margins.append(
+            MarginPicks(
+                direction=c.direction,
+                profile_id=horizon.id,
+                platform_top_id=horizon.id,
+                shelf_break=brk,
+                toe=toe,
+                clinoforms=(ClinoformPicks(horizon.id, brk, toe, c.break_reason, c.toe_reason),),
+                confidence=float(c.confidence),
+                break_reason=c.break_reason,
+                toe_reason=c.toe_reason,
+                notes=("margin found on the interpreter's horizon",),
+            )
+        )
+    notes = []
+    if not margins:
+        notes.append(
+            f"no leg of the horizon deepens basinward by {min_relief_m:g} m or more from a flatter top "
+            "over a foreset of several traces"
+        )
+    return Picks(horizons=(horizon,), margins=tuple(margins), picker="user_horizon",
+                 parameters=params, notes=tuple(notes))
 
 
 # ------------------------------------------------------------- horizon CSV
