@@ -80,7 +80,9 @@ def _setup_logging(verbosity: int) -> None:
         root.addHandler(handler)
     for h in root.handlers:
         if getattr(h, "_clinometry_cli", False):
-            h.setStream(sys.stderr)
+            # plain assignment, not setStream(): that flushes the previous
+            # stream, which may be closed by now (pytest's capsys, a closed pipe)
+            h.stream = sys.stderr
 
 
 def main(argv=None) -> int:
