@@ -151,7 +151,7 @@ def collect_tables(tasks, out_dir, *, plot=True):
         except (OSError, ValueError):
             lines.append(entry)
             continue
-        rows = margin_rows(d, file=os.path.basename(t.path), line=t.label, stem=t.stem)
+        rows = margin_rows(d, file=t.path, line=t.label, stem=t.stem)
         for r in rows:
             r["json"] = names["json"]
         margins.extend(rows)
@@ -179,6 +179,8 @@ def run_batch(
     velocity=None,
     velocity_linear=None,
     velocity_file=None,
+    velocity_kind="interval",
+    file_velocity=None,
     domain=None,
     picker="default",
     classifier="rules",
@@ -207,8 +209,11 @@ def run_batch(
         Skip lines whose files are complete and valid.
     inlines, crosslines : str, optional
         ``all`` or ``A:B:STEP`` for 3D volumes (default every inline).
-    velocity, velocity_linear, velocity_file, domain, picker, classifier, thresholds, uncertainty, seed
+    velocity, velocity_linear, velocity_file, velocity_kind, domain, picker, classifier, thresholds, uncertainty, seed
         Passed to :func:`clinometry.pipeline.analyze` for every line.
+    file_velocity : dict, optional
+        File path -> ``{"velocity": v_m_s}`` or ``{"velocity_linear":
+        (v0_m_s, k_per_s)}`` for files that need their own velocity.
     plot : bool
         Write a QC PNG per line and the summary/map figures.
     quiet : bool
@@ -235,6 +240,8 @@ def run_batch(
         velocity=None if velocity is None else float(velocity),
         velocity_linear=None if velocity_linear is None else tuple(float(v) for v in velocity_linear),
         velocity_file=None if velocity_file is None else str(Path(velocity_file).resolve()),
+        velocity_kind=str(velocity_kind or "interval"),
+        file_velocity={os.path.abspath(k): dict(v) for k, v in (file_velocity or {}).items()},
         domain=domain,
         picker=picker,
         classifier=classifier,
@@ -271,7 +278,7 @@ def run_batch(
 
     margins, lines, cautions = collect_tables(tasks, out, plot=plot)
     errors = list(problems) + [
-        {"file": os.path.basename(r["file"]), "line": r["line"], "error_type": r["error_type"], "message": r["message"]}
+        {"file": r["file"], "line": r["line"], "error_type": r["error_type"], "message": r["message"]}
         for r in records if r["status"] != "ok"
     ]
     files = {

@@ -93,6 +93,8 @@ class TaskOptions:
     velocity_linear : (float, float), optional
         ``(v0_m_s, k_per_s)``.
     velocity_file : str, optional
+    velocity_kind : {"interval", "rms"}
+        How the velocities of ``velocity_file`` are meant.
     domain : {"twt", "depth"}, optional
     picker, classifier : str
     thresholds : str, optional
@@ -100,12 +102,17 @@ class TaskOptions:
     uncertainty : bool
     seed : int
     plot : bool
+    file_velocity : dict
+        Absolute file path -> ``{"velocity": v_m_s}`` or
+        ``{"velocity_linear": (v0_m_s, k_per_s)}`` for files whose velocity
+        differs from the run's (used instead of the run's velocity options).
     """
 
     out_dir: str
     velocity: float | None = None
     velocity_linear: tuple | None = None
     velocity_file: str | None = None
+    velocity_kind: str = "interval"
     domain: str | None = None
     picker: str = "default"
     classifier: str = "rules"
@@ -113,7 +120,7 @@ class TaskOptions:
     uncertainty: bool = True
     seed: int = 0
     plot: bool = True
-    extra: dict = field(default_factory=dict)
+    file_velocity: dict = field(default_factory=dict)
 
 
 def parse_line_spec(spec):
@@ -351,12 +358,16 @@ def run_task(task, options) -> dict:
         kwargs["inline"] = task.line
     elif task.direction == "crossline":
         kwargs["crossline"] = task.line
+    vel = {"velocity": options.velocity,
+           "velocity_linear": tuple(options.velocity_linear) if options.velocity_linear else None,
+           "velocity_file": options.velocity_file}
+    if task.path in options.file_velocity:
+        vel = {"velocity": None, "velocity_linear": None, "velocity_file": None, **options.file_velocity[task.path]}
     try:
         result, section, model = analyze_full(
             task.path,
-            velocity=options.velocity,
-            velocity_linear=tuple(options.velocity_linear) if options.velocity_linear else None,
-            velocity_file=options.velocity_file,
+            **vel,
+            velocity_kind=options.velocity_kind,
             domain=options.domain,
             picker=options.picker,
             classifier=options.classifier,

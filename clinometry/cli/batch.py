@@ -82,6 +82,7 @@ def batch_kwargs(args) -> dict:
         velocity=getattr(args, "velocity", None),
         velocity_linear=getattr(args, "velocity_linear", None),
         velocity_file=getattr(args, "velocity_file", None),
+        velocity_kind=getattr(args, "velocity_kind", "interval") or "interval",
         domain=getattr(args, "domain", None),
         uncertainty=not args.no_uncertainty,
         seed=args.seed,
@@ -95,7 +96,8 @@ def report(summary) -> int:
     failed = summary.n_failed + summary.n_problems
     print(
         f"{summary.n_tasks} line(s): {summary.n_ok} analysed, {summary.n_skipped} already complete, "
-        f"{failed} failed; {summary.n_margins} margin(s) in {summary.files.get('margins_csv')}"
+        f"{summary.n_failed} failed; {summary.n_problems} input(s) unusable; "
+        f"{summary.n_margins} margin(s) in {summary.files.get('margins_csv')}"
     )
     print(f"review page: {summary.files.get('index_html')}")
     code = summary.exit_code

@@ -5,7 +5,9 @@ margins, one per family and trajectory class, plus a small 3D cube), with
 their ground truth beside them.  In a source checkout they are read from the
 repository's synthetic_volumes/ folder; when the package is installed
 without that folder they are generated first into DIR/inputs (the same
-forward model and seeds, so the same lines).
+forward model and seeds, so the same lines).  Each line is converted to
+depth with the velocity law the forward model states in its truth file,
+unless a velocity option is given.
 
 Writes into DIR what clinometry batch writes (per-line JSON, horizons CSV, QC
 PNG, margins.csv, errors.csv, summary.png, map.png, index.html).  Compare the
@@ -23,7 +25,8 @@ from pathlib import Path
 DESCRIPTION = "batch over the bundled synthetic lines and volume (the main job, end to end)"
 EXAMPLE = "clinometry demo --out demo/   # then open demo/index.html"
 
-__all__ = ["DESCRIPTION", "EXAMPLE", "configure", "run", "bundled_inputs", "generate_inputs", "demo_inputs"]
+__all__ = ["DESCRIPTION", "EXAMPLE", "configure", "run", "bundled_inputs", "generate_inputs", "demo_inputs",
+           "truth_velocities"]
 
 logger = logging.getLogger(__name__)
 
@@ -59,8 +62,8 @@ def bundled_inputs():
     return None
 
 
-def generate_inputs(folder, *, seed=0):
-    """Write every forward-model scenario (and the 3D cube) into ``folder``.
+def generate_inputs(folder, *, seed=0, scenarios=None, cube=True):
+    """Write forward-model scenarios (and the 3D cube) into ``folder``.
 
     Parameters
     ----------
@@ -68,30 +71,59 @@ def generate_inputs(folder, *, seed=0):
         Created if missing.
     seed : int
         Seed of the forward model's noise (the bundled files use 0).
+    scenarios : sequence of str, optional
+        Scenario names; default every one in ``clinometry.synth.SCENARIOS``.
+    cube : bool
+        Also write the small 3D cube (``cube.sgy``).
 
     Returns
     -------
     list of pathlib.Path
-        The SEG-Y files written (truth JSON files sit beside them).
+        The SEG-Y files written (``<stem>.truth.json`` beside each).
     """
     from .. import synth
 
     folder = Path(folder)
     folder.mkdir(parents=True, exist_ok=True)
     written = []
-    for name in synth.SCENARIOS:
-        target = folder / f"{name}.sgy"
+    for name in (synth.SCENARIOS if scenarios is None else scenarios):
         section, truth = synth.make_line(name, seed=seed)
-        synth.write_line(section, truth, target)
-        written.append(target)
-    make_cube = getattr(synth, "make_cube", None)
-    write_cube = getattr(synth, "write_cube", None)
-    if make_cube is not None and write_cube is not None:
-        target = folder / "cube.sgy"
-        cube, truth = make_cube(seed=seed)
-        write_cube(cube, truth, target)
-        written.append(target)
+        written.append(synth.write_line(section, truth, folder / f"{name}.sgy")[0])
+    if cube:
+        volume, truth = synth.make_cube(seed=seed)
+        written.append(synth.write_cube(volume, truth, folder / "cube.sgy")[0])
     return written
+
+
+def truth_velocities(folder) -> dict:
+    """Velocity of each synthetic input, from the truth JSON beside it.
+
+    The forward model states the velocity law it rendered with; in the demo
+    this plays the part of the interpreter's velocity model (an input, not a
+    result), so the depths are compared on the same footing as the truth.
+
+    Returns
+    -------
+    dict
+        SEG-Y path -> ``{"velocity": v}`` or ``{"velocity_linear": (v0, k)}``
+        (files without a readable truth JSON are left out).
+    """
+    import json
+
+    out = {}
+    for seg in sorted(Path(folder).iterdir()):
+        if seg.suffix.lower() not in (".sgy", ".segy"):
+            continue
+        truth = seg.with_name(seg.stem + ".truth.json")
+        try:
+            vel = json.loads(truth.read_text(encoding="utf-8")).get("velocity") or {}
+        except (OSError, ValueError):
+            continue
+        if vel.get("model") == "constant" and vel.get("v_m_s"):
+            out[str(seg)] = {"velocity": float(vel["v_m_s"])}
+        elif vel.get("model") == "linear":
+            out[str(seg)] = {"velocity_linear": (float(vel["v0_m_s"]), float(vel["k_per_s"]))}
+    return out
 
 
 def demo_inputs(out_dir, *, regenerate=False):
@@ -114,6 +146,9 @@ def run(args) -> int:
 
     inputs = demo_inputs(args.out, regenerate=args.regenerate)
     print(f"inputs: {inputs}")
+    kwargs = batch_kwargs(args)
+    given = any(kwargs.get(k) is not None for k in ("velocity", "velocity_linear", "velocity_file"))
+    file_velocity = {} if given else truth_velocities(inputs)
     summary = run_batch([str(inputs)], args.out, inlines="all", title="clinometry demo: synthetic margins",
-                        **batch_kwargs(args))
+                        file_velocity=file_velocity, **kwargs)
     return report(summary)

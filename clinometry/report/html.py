@@ -34,7 +34,7 @@ CAUTION_TEXT = (
 #: (key in a margins row, column heading, number of decimals or None for text)
 TABLE_COLUMNS = (
     ("stem", "line", None),
-    ("direction", "basinward", None),
+    ("direction", "basin side", None),
     ("family", "family", None),
     ("subtype", "subtype", None),
     ("confidence", "confidence", 2),
@@ -54,7 +54,8 @@ body{font-family:system-ui,-apple-system,"Segoe UI",sans-serif;margin:1.2em 2em;
 h1{font-size:1.5em;margin-bottom:.2em}h2{font-size:1.2em;margin-top:1.6em;border-bottom:1px solid #ccc}
 .caution{background:#fff4e0;border-left:6px solid #E69F00;padding:.6em 1em;margin:1em 0}
 table{border-collapse:collapse;font-size:.86em}th,td{border:1px solid #ccc;padding:.25em .5em;text-align:right}
-th{background:#eef3f8;cursor:pointer;user-select:none;position:sticky;top:0}td.t{text-align:left}
+th{background:#eef3f8;cursor:pointer;user-select:none;position:sticky;top:0;text-align:left}
+td.t{text-align:left;white-space:nowrap}
 th.asc::after{content:" \\25B2"}th.desc::after{content:" \\25BC"}
 tr:nth-child(even){background:#f8f8f8}.fam{display:inline-block;width:.8em;height:.8em;margin-right:.3em;border:1px solid #333}
 .controls{margin:.6em 0}.controls label{margin-right:1.2em}
@@ -110,6 +111,9 @@ def _cell(row, key, digits):
             sw = _FAMILY_SWATCH.get(text, "#7f7f7f")
             return (f'<td class="t" data-v="{_e(text)}"><span class="fam" style="background:{sw}"></span>'
                     f"{_e(text or 'unclassified')}</td>")
+        if key == "direction":
+            words = {"+": "towards higher traces", "-": "towards lower traces"}.get(text, text)
+            return f'<td class="t" data-v="{_e(text)}" title="basin side along the line">{_e(words)}</td>'
         if key == "stem" and row.get("json"):
             return f'<td class="t" data-v="{_e(text)}"><a href="{_href(row["json"])}">{_e(text)}</a></td>'
         return f'<td class="t" data-v="{_e(text)}">{_e(text)}</td>'
