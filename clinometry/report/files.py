@@ -38,6 +38,8 @@ __all__ = [
     "write_margins_csv",
     "write_margins_parquet",
     "write_errors_csv",
+    "HORIZON_COLUMNS",
+    "write_result_files",
 ]
 
 logger = logging.getLogger(__name__)
@@ -310,3 +312,63 @@ def write_margins_parquet(rows, path):
     buf = pa.BufferOutputStream()
     pq.write_table(table, buf)
     return atomic_write(path, buf.getvalue().to_pybytes())
+
+
+#: columns of ``<stem>.horizons.csv``, in order (names end in their unit)
+HORIZON_COLUMNS = ("horizon_id", "role", "trace", "distance_m", "x", "y", "z", "depth_m", "quality")
+
+
+def write_result_files(result, out_dir, *, stem, plot=True, section=None, velocity=None) -> dict:
+    """Write the files of one analysed line: JSON, horizons CSV and QC plot.
+
+    Parameters
+    ----------
+    result : clinometry.result.Result
+    out_dir : str or os.PathLike
+        Created if missing.
+    stem : str
+        File stem (reduced with :func:`safe_name`).
+    plot : bool
+        Write ``<stem>.png`` with :func:`clinometry.report.plots.qc_figure`.
+    section : xarray.DataArray, dims ("trace", "z"), optional
+        The analysed section; needed for the horizons table and the plot.
+    velocity : velocity model, optional
+        The model of the run (None for depth sections), for ``depth_m``.
+
+    Returns
+    -------
+    dict
+        ``{"json": path, "horizons": path or None, "plot": path or None}``;
+        a file that could not be written for lack of input is None and the
+        reason is logged at INFO.
+
+    Notes
+    -----
+    Every file is written with :func:`atomic_write`.  The horizons table has
+    the columns :data:`HORIZON_COLUMNS` (rows from
+    :func:`clinometry.picking.export.horizon_rows`); with no horizons it
+    holds only the header.
+    """
+    out = Path(out_dir)
+    out.mkdir(parents=True, exist_ok=True)
+    stem = safe_name(stem)
+    paths = {"json": atomic_write(out / f"{stem}.json", result.to_json(indent=2) + "\n"), "horizons": None, "plot": None}
+    if section is None:
+        logger.info("%s: no section given; horizons table and QC plot skipped", stem)
+        return paths
+    rows = []
+    if result.picks is not None and result.picks.horizons:
+        from ..picking.export import horizon_rows
+
+        rows = horizon_rows(result.picks, section, velocity)
+    paths["horizons"] = write_csv(rows, out / f"{stem}.horizons.csv", HORIZON_COLUMNS)
+    if plot:
+        try:
+            from .plots import qc_figure
+        except ImportError as err:
+            logger.info("%s: QC plot skipped (clinometry.report.plots.qc_figure not available: %s)", stem, err)
+        else:
+            target = out / f"{stem}.png"
+            qc_figure(result, section, target)
+            paths["plot"] = target
+    return paths
