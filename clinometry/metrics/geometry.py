@@ -21,9 +21,9 @@ Conventions
     Depth below the z origin of the section (time zero, delay included),
     positive down, as in the results contract.
 
-Depth conversion uses the velocity-model interface of :mod:`clinometry.depth`
-(``velocity.depth_m(twt_ms, trace=...)``); depth-domain sections are taken
-as they are and need no velocity.
+Depth conversion is :func:`clinometry.depth.horizon_to_depth` with the
+run's velocity model; depth-domain sections are taken as they are and need
+no velocity.
 """
 
 from __future__ import annotations
@@ -33,7 +33,8 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from ..errors import GeometryError, VelocityError
+from ..depth import horizon_to_depth
+from ..errors import GeometryError
 from ..section import check_section, section_name
 from .records import POINT_KEYS
 
@@ -164,9 +165,8 @@ def to_depth(section, velocity, trace, z) -> np.ndarray:
     Parameters
     ----------
     section : xarray.DataArray, dims ("trace", "z")
-    velocity : velocity model or None
-        Any model of :mod:`clinometry.depth` (``depth_m(twt_ms, trace=...)``).
-        May be None only for depth-domain sections.
+    velocity : VelocityModel or None
+        A model of :mod:`clinometry.depth`; None only for depth sections.
     trace : array_like of int, shape (n,)
     z : array_like of float, shape (n,)
         ms TWT or m, in the section's domain.
@@ -179,17 +179,12 @@ def to_depth(section, velocity, trace, z) -> np.ndarray:
     ------
     VelocityError
         TWT section and no velocity model.
+
+    See Also
+    --------
+    clinometry.depth.horizon_to_depth
     """
-    z = np.asarray(z, dtype=np.float64)
-    if section.attrs["domain"] == "depth":
-        return z.copy()
-    if velocity is None:
-        raise VelocityError(
-            f"{section_name(section)}: the section is in two-way time and no velocity model was given; "
-            "pass velocity= (a model from clinometry.depth) or use a depth-domain section"
-        )
-    trace = np.asarray(trace, dtype=np.int64)
-    return np.asarray(velocity.depth_m(z, trace=trace), dtype=np.float64)
+    return np.asarray(horizon_to_depth(section, trace, np.asarray(z, dtype=np.float64), velocity), dtype=np.float64)
 
 
 def _dz_depth(section, velocity, trace, z) -> np.ndarray:

@@ -1,0 +1,164 @@
+"""Slope, relief, flank gradients and curvature on analytic depth profiles."""
+
+import numpy as np
+import pytest
+from numpy.testing import assert_allclose
+
+from clinometry.depth import ConstantVelocity, LinearVelocity
+from clinometry.metrics import margin_geometry, measure
+from clinometry.metrics.slope import secant_slope_max_deg, slope_metrics
+
+
+def _slope(picks, section, velocity=None, **kw):
+    g = margin_geometry(picks, picks.margins[0], section, velocity)
+    return slope_metrics(g, **kw), g
+
+
+def test_planar_10deg_foreset_depth_section(build_margin, planar):
+    picks, section = build_margin(planar(10.0))
+    v, _ = _slope(picks, section)
+    # trigonometry: relief = width * tan(angle) (common practice, no source)
+    relief = 1000.0 * np.tan(np.radians(10.0))
+    assert_allclose(v["relief_m"], relief, rtol=1e-9)
+    assert_allclose(v["foreset_width_m"], 1000.0, rtol=1e-12)
+    assert_allclose(v["slope_mean_deg"], 10.0, rtol=1e-9)
+    assert_allclose(v["slope_max_deg"], 10.0, rtol=1e-9)
+    assert_allclose(v["topset_gradient_deg"], 0.0, atol=1e-9)
+    assert_allclose(v["bottomset_gradient_deg"], 0.0, atol=1e-9)
+    assert v["slope_window"] == "break_to_toe"
+    assert v["slope_base_length_m"] == pytest.approx(100.0)  # 4 traces of 25 m
+
+
+@pytest.mark.parametrize("v_m_s", [2500.0, 4000.0])
+def test_planar_10deg_foreset_twt_section_constant_velocity(build_margin, planar, v_m_s):
+    # tan(theta) = (v / 2) * dt / dx for constant velocity (Sheriff & Geldart 1995,
+    # Exploration Seismology, from memory): the same 10 deg foreset in time at two
+    # velocities must give 10 deg once converted.
+    vel = ConstantVelocity(v_m_s)
+    picks, section = build_margin(planar(10.0), velocity=vel)
+    prof = picks.horizon(0)
+    dt_dx = (prof.z[80] - prof.z[40]) / 1000.0  # ms per m
+    assert_allclose(np.degrees(np.arctan(v_m_s / 2.0 * dt_dx / 1000.0)), 10.0, rtol=1e-9)
+    v, _ = _slope(picks, section, vel)
+    assert_allclose(v["slope_max_deg"], 10.0, rtol=1e-9)
+    assert_allclose(v["slope_mean_deg"], 10.0, rtol=1e-9)
+    assert_allclose(v["relief_m"], 1000.0 * np.tan(np.radians(10.0)), rtol=1e-9)
+
+
+def test_planar_foreset_twt_section_linear_velocity(build_margin, planar):
+    # z(t) = (v0 / k) (exp(k t / 2) - 1) (Sheriff & Geldart 1995, from memory) is how
+    # the model converts; the depth geometry must come back exactly.
+    vel = LinearVelocity(1800.0, 0.6)
+    picks, section = build_margin(planar(25.0, top_m=400.0), velocity=vel)
+    t_break = picks.horizon(0).z[40] / 1000.0  # s
+    assert_allclose(1800.0 / 0.6 * (np.exp(0.6 * t_break / 2.0) - 1.0), 400.0, rtol=1e-9)
+    v, _ = _slope(picks, section, vel)
+    assert_allclose(v["slope_max_deg"], 25.0, rtol=1e-6)
+    assert_allclose(v["break_depth_m"], 400.0, rtol=1e-9)
+
+
+def test_direction_minus_gives_same_numbers(build_margin, planar):
+    plus, s_plus = build_margin(planar(15.0), direction="+")
+    minus, s_minus = build_margin(planar(15.0), direction="-")
+    vp, _ = _slope(plus, s_plus)
+    vm, gm = _slope(minus, s_minus)
+    for k in ("slope_max_deg", "slope_mean_deg", "relief_m", "foreset_width_m"):
+        assert_allclose(vm[k], vp[k], rtol=1e-12)
+    # basinward distance increases with decreasing trace index on a "-" margin
+    assert np.all(np.diff(gm.profile.trace) < 0)
+    assert np.all(np.diff(gm.profile.basinward_m) > 0)
+
+
+def test_flank_gradients_signed_basinward_down(build_margin):
+    top = np.tan(np.radians(0.5))
+    floor = np.tan(np.radians(-0.2))
+    fs = np.tan(np.radians(12.0))
+
+    def fn(x):
+        x = np.asarray(x, dtype=float)
+        d_break = 200 + top * 1000.0
+        d_toe = d_break + fs * 1000.0
+        return np.where(x <= 1000, 200 + top * x,
+                        np.where(x <= 2000, d_break + fs * (x - 1000), d_toe + floor * (x - 2000)))
+
+    v, _ = _slope(*build_margin(fn))
+    # a line's least-squares gradient is the line's own gradient (common practice, no source)
+    assert_allclose(v["topset_gradient_deg"], 0.5, rtol=1e-9)
+    assert_allclose(v["bottomset_gradient_deg"], -0.2, rtol=1e-9)
+    assert_allclose(v["slope_max_deg"], 12.0, rtol=1e-9)
+
+
+def test_curvature_of_parabola_at_break_and_toe(build_margin):
+    # curvature of y = c x^2 at its vertex is 2c (plane-curve curvature
+    # y'' / (1 + y'^2)^1.5, Kreyszig, Advanced Engineering Mathematics, from memory)
+    c = 1.0e-4  # 1/m -> 0.2 per km
+    v_break, _ = _slope(*build_margin(lambda x: 200 + c * (np.asarray(x) - 1000.0) ** 2))
+    assert_allclose(v_break["break_curvature_per_km"], 2 * c * 1000, rtol=1e-9)
+    v_toe, _ = _slope(*build_margin(lambda x: 600 - c * (np.asarray(x) - 2000.0) ** 2))
+    assert_allclose(v_toe["toe_curvature_per_km"], 2 * c * 1000, rtol=1e-9)
+
+
+def test_max_slope_base_length_smooths_one_sample_step(build_margin):
+    # a 5 m step between two traces on an otherwise flat profile: over a 100 m
+    # base the steepest secant is atan(5 / 100) (trigonometry, common practice, no source)
+    picks, section = build_margin(lambda x: 300.0 + 5.0 * (np.asarray(x) >= 1500.0))
+    v, _ = _slope(picks, section)
+    assert_allclose(v["slope_max_deg"], np.degrees(np.arctan(5.0 / 100.0)), rtol=1e-9)
+    v50, _ = _slope(picks, section, base_length_m=50.0)
+    assert_allclose(v50["slope_max_deg"], np.degrees(np.arctan(5.0 / 50.0)), rtol=1e-9)
+
+
+def test_secant_slope_max_short_window_is_chord():
+    xs = np.arange(0.0, 201.0, 10.0)
+    ds = 2.0 * xs
+    # window 30 m < base 100 m: the chord between the window ends, atan(2)
+    assert_allclose(secant_slope_max_deg(xs, ds, 50.0, 80.0, 100.0), np.degrees(np.arctan(2.0)))
+    assert np.isnan(secant_slope_max_deg(xs, ds, 80.0, 50.0, 100.0))
+
+
+def test_missing_toe_gives_reasons_not_values(build_margin, planar):
+    picks, section = build_margin(planar(20.0), toe_trace=None)
+    v, _ = _slope(picks, section)
+    for k in ("relief_m", "slope_mean_deg", "foreset_width_m", "bottomset_gradient_deg", "toe_curvature_per_km"):
+        assert k not in v
+        assert "no toe found (test)" in v["missing"][k]
+    # slope max is still measured, to the end of the profile, and says so
+    assert v["slope_window"] == "break_to_profile_end"
+    assert_allclose(v["slope_max_deg"], 20.0, rtol=1e-9)
+
+
+def test_clinoform_heights_and_median(build_margin, planar):
+    clinos = [(planar(10.0, top_m=300.0, x_break=500.0, x_toe=1000.0), 20, 40),
+              (planar(20.0, top_m=250.0, x_break=750.0, x_toe=1250.0), 30, 50),
+              (planar(30.0, top_m=200.0, x_break=1000.0, x_toe=1500.0), 40, None)]
+    v, _ = _slope(*build_margin(planar(30.0), clinoforms=clinos))
+    h = [500.0 * np.tan(np.radians(a)) for a in (10.0, 20.0)]
+    c = v["clinoforms"]
+    assert [e["horizon_id"] for e in c] == [10, 11, 12]
+    assert_allclose([c[0]["height_m"], c[1]["height_m"]], h, rtol=1e-9)
+    assert_allclose([c[0]["slope_max_deg"], c[1]["slope_max_deg"]], [10.0, 20.0], rtol=1e-9)
+    assert c[2]["height_m"] is None and c[2]["slope_max_deg"] is None
+    assert "no toe in test" in c[2]["missing"]["height_m"]
+    # median of two values is their mean (common practice, no source)
+    assert_allclose(v["clinoform_height_m"], np.mean(h), rtol=1e-9)
+    assert c[0]["break"]["distance_m"] == pytest.approx(500.0)
+
+
+def test_measure_fills_contract_points(build_margin, planar):
+    picks, section = build_margin(planar(10.0), direction="-")
+    before = section.copy(deep=True)
+    mm = measure(picks, section, uncertainty=False).margins[0]
+    # break at basinward trace 40 of a "-" line of 121 traces is section trace 80
+    assert mm.shelf_break["trace"] == 80
+    assert mm.shelf_break["distance_m"] == pytest.approx(80 * 25.0)
+    # x = 1000 + 0.6 * distance, y = 2000 + 0.8 * distance (how the test line was built)
+    assert mm.shelf_break["x"] == pytest.approx(1000.0 + 0.6 * 2000.0)
+    assert mm.shelf_break["y"] == pytest.approx(2000.0 + 0.8 * 2000.0)
+    assert mm.shelf_break["depth_m"] == pytest.approx(200.0)
+    assert mm.toe["depth_m"] == pytest.approx(200.0 + 1000.0 * np.tan(np.radians(10.0)))
+    assert mm.platform_top["trace"] == 120 and mm.platform_top["depth_m"] == pytest.approx(200.0)
+    assert mm.confidence == pytest.approx(0.9)
+    assert len(mm.profile["depth_m"]) == 121
+    import xarray.testing
+
+    xarray.testing.assert_identical(section, before)

@@ -1,0 +1,70 @@
+"""Shelf-break trajectory on hand-computed break sets (Helland-Hansen & Martinsen 1996)."""
+
+import numpy as np
+import pytest
+from numpy.testing import assert_allclose
+
+from clinometry.metrics import margin_geometry
+from clinometry.metrics.trajectory import TRAJECTORY_FLAT_DEG, trajectory_from_breaks, trajectory_metrics
+
+
+def test_ascending_hand_computed():
+    # by hand: breaks rise 17.5 m per 1000 m -> atan(0.0175) = 1.0025742 deg (series atan(u) = u - u^3/3), A/P = 0.0175
+    t = trajectory_from_breaks([0.0, 1000.0, 2000.0], [300.0, 282.5, 265.0])
+    assert_allclose(t["angle_deg"], 1.0025742, rtol=1e-6)
+    assert t["class"] == "ascending"
+    assert t["progradation_m"] == pytest.approx(2000.0)
+    assert t["aggradation_m"] == pytest.approx(35.0)
+    assert t["ratio"] == pytest.approx(0.0175)
+    assert_allclose(t["step_angles_deg"], [1.0025742, 1.0025742], rtol=1e-6)
+    assert t["n_breaks"] == 3 and t["backstepping"] is False
+
+
+def test_descending_hand_computed():
+    # by hand: breaks drop 50 m over 2000 m -> -atan(0.025) = -1.43209 deg
+    t = trajectory_from_breaks([0.0, 2000.0], [300.0, 350.0])
+    assert_allclose(t["angle_deg"], -1.4320961, rtol=1e-6)
+    assert t["class"] == "descending"
+
+
+def test_flat_within_band_and_exactly_at_band():
+    # by hand: 2 m over 3000 m -> 0.0382 deg, inside the +-0.1 deg band (band chosen here)
+    t = trajectory_from_breaks([0.0, 3000.0], [300.0, 298.0])
+    assert_allclose(t["angle_deg"], np.degrees(np.arctan(2.0 / 3000.0)), rtol=1e-12)
+    assert t["class"] == "flat"
+    # exactly at the band edge counts as flat (|angle| <= band)
+    rise = 1000.0 * np.tan(np.radians(TRAJECTORY_FLAT_DEG))
+    assert trajectory_from_breaks([0.0, 1000.0], [300.0, 300.0 - rise])["class"] == "flat"
+    assert trajectory_from_breaks([0.0, 1000.0], [300.0, 300.0 - 1.01 * rise])["class"] == "ascending"
+
+
+def test_backstepping_keeps_elevation_angle():
+    # break moves 500 m landward while rising 50 m: elevation angle atan(50 / 500) = 5.71 deg
+    t = trajectory_from_breaks([1000.0, 500.0], [300.0, 250.0])
+    assert t["backstepping"] is True
+    assert_allclose(t["angle_deg"], np.degrees(np.arctan(0.1)), rtol=1e-12)
+    assert t["ratio"] == pytest.approx(-0.1)
+
+
+def test_trajectory_metrics_from_clinoform_breaks(build_margin, planar):
+    # three clinoforms, breaks at basinward 500, 750, 1000 m and depths 300, 290, 280 m:
+    # 20 m rise over 500 m -> atan(0.04) = 2.2906 deg
+    clinos = [(planar(20.0, top_m=300.0, x_break=500.0, x_toe=900.0), 20, 36),
+              (planar(20.0, top_m=290.0, x_break=750.0, x_toe=1150.0), 30, 46),
+              (planar(20.0, top_m=280.0, x_break=1000.0, x_toe=1400.0), 40, 56)]
+    for direction in ("+", "-"):
+        picks, section = build_margin(planar(20.0, top_m=280.0), clinoforms=clinos, direction=direction)
+        g = margin_geometry(picks, picks.margins[0], section)
+        t = trajectory_metrics(g)["trajectory"]
+        assert_allclose(t["angle_deg"], np.degrees(np.arctan(20.0 / 500.0)), rtol=1e-9)
+        assert t["class"] == "ascending"
+        assert t["progradation_m"] == pytest.approx(500.0)
+        assert [p["depth_m"] for p in t["breaks"]] == pytest.approx([300.0, 290.0, 280.0])
+
+
+def test_trajectory_missing_with_fewer_than_two_breaks(build_margin, planar):
+    clinos = [(planar(20.0), 40, 80), (planar(20.0, top_m=190.0), None, 80)]
+    picks, section = build_margin(planar(20.0), clinoforms=clinos)
+    out = trajectory_metrics(margin_geometry(picks, picks.margins[0], section))
+    assert out["trajectory"] is None
+    assert "1 clinoform break(s) picked out of 2" in out["missing"]["trajectory"]
