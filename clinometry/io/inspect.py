@@ -16,7 +16,7 @@ import os
 import numpy as np
 
 from .headers import TRACE_HEADER, apply_scalar
-from .segy import MAX_SAMPLE_INTERVAL, _check_header_bytes, _geometry, _Headers, sample_interval_from_headers
+from .segy import MAX_SAMPLE_INTERVAL, _check_header_bytes, delay_from_headers, _geometry, _Headers, sample_interval_from_headers
 from .sniff import sniff_segy
 
 __all__ = ["inspect_file"]
@@ -69,8 +69,7 @@ def inspect_file(path, *, domain="twt", coordinates="cdp", header_bytes=None) ->
         problems.append(f"no usable sample interval: {source}; pass sample_interval= when reading")
     elif dz > MAX_SAMPLE_INTERVAL[domain]:
         problems.append(f"sample interval {dz:g} is absurd for {domain} data; pass sample_interval= when reading")
-    ft = layout.first_trace
-    z0 = float(apply_scalar(ft.get("delay_time", 0), ft.get("time_scalar", 0)))
+    z0 = delay_from_headers(layout)
     hdr = _Headers(layout)
     try:
         geo = _geometry(hdr, chosen)

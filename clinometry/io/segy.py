@@ -64,6 +64,7 @@ __all__ = [
     "DEFAULT_TRACE_SPACING_M",
     "MIN_GRID_FILL",
     "sample_interval_from_headers",
+    "delay_from_headers",
 ]
 
 logger = logging.getLogger(__name__)
@@ -179,6 +180,25 @@ def sample_interval_from_headers(layout: SegyLayout, *, domain: str = "twt"):
     return raw / _HEADER_INTERVAL_PER_UNIT, source
 
 
+def delay_from_headers(layout: SegyLayout) -> float:
+    """Delay recording time of the first trace (bytes 109-110), scaled.
+
+    The time scalar (bytes 215-216) exists from SEG-Y rev 1 on [1]_ and is
+    applied only to files that declare revision 1 or later; older files may
+    hold anything there.
+
+    Returns
+    -------
+    float
+        ms for time data (the z value of the first sample).
+    """
+    delay = layout.first_trace.get("delay_time", 0)
+    if not delay:
+        return 0.0
+    tscal = layout.first_trace.get("time_scalar", 0) if layout.revision[0] >= 1 else 0
+    return float(apply_scalar(delay, tscal))
+
+
 def _z_axis(layout, name, domain, sample_interval, fallbacks):
     unit = Z_UNITS[domain]
     if sample_interval is not None:
@@ -200,9 +220,7 @@ def _z_axis(layout, name, domain, sample_interval, fallbacks):
             f"(more than {MAX_SAMPLE_INTERVAL[domain]:g} {unit}); pass sample_interval= (in {unit}) "
             "or check domain="
         )
-    delay = layout.first_trace.get("delay_time", 0)
-    tscal = layout.first_trace.get("time_scalar", 0)
-    z0 = float(apply_scalar(delay, tscal)) if delay else 0.0
+    z0 = delay_from_headers(layout)
     z = z0 + np.arange(layout.n_samples, dtype=np.float64) * dz
     return z, dz, source
 
