@@ -26,7 +26,7 @@ import os
 
 import numpy as np
 
-from ..errors import VelocityError
+from ..errors import GeometryError, VelocityError
 from ..section import section_name
 from ._checks import MS_PER_S, check_velocities
 from .dix import rms_to_interval
@@ -287,28 +287,30 @@ class SectionVelocity(VelocityModel):
         from ..io import is_3d, iter_sections, read_section
 
         fname = os.path.basename(os.fspath(path))
-        if not is_3d(path):
+        sname = section_name(section)
+        if not is_3d(path, header_bytes=read_options.get("header_bytes")):
             vsec = read_section(path, domain="twt", **read_options)
             return cls.from_section(vsec, section, kind=kind)
         if "inline" not in section.coords or "crossline" not in section.coords:
             raise VelocityError(
-                f"{fname} is a 3D velocity volume but {section_name(section)} has no inline/crossline "
+                f"{fname} is a 3D velocity volume but {sname} has no inline/crossline "
                 "numbers to match it by; read the seismic with its inline/crossline header bytes"
             )
         ils = np.unique(section["inline"].values)
         xls = np.unique(section["crossline"].values)
-        if ils.size == 1:
-            vsec = read_section(path, inline=int(ils[0]), domain="twt", **read_options)
-        elif xls.size == 1:
-            vsec = read_section(path, crossline=int(xls[0]), domain="twt", **read_options)
-        else:  # an arbitrary line through the volume: gather the inlines it crosses
-            import xarray as xr
+        try:
+            if ils.size == 1:
+                vsec = read_section(path, inline=int(ils[0]), domain="twt", **read_options)
+            elif xls.size == 1:
+                vsec = read_section(path, crossline=int(xls[0]), domain="twt", **read_options)
+            else:  # an arbitrary line through the volume: gather the inlines it crosses
+                import xarray as xr
 
-            parts = list(iter_sections(path, direction="inline", lines=[int(i) for i in ils], domain="twt", **read_options))
-            if not parts:
-                raise VelocityError(f"{fname}: none of the inlines {ils.min()}-{ils.max()} of {section_name(section)} is in the volume")
-            vsec = xr.concat(parts, dim="trace", combine_attrs="override").transpose("trace", "z")
-            vsec = vsec.assign_coords(trace=np.arange(vsec.sizes["trace"]))
+                parts = list(iter_sections(path, direction="inline", lines=[int(i) for i in ils], domain="twt", **read_options))
+                vsec = xr.concat(parts, dim="trace", combine_attrs="override").transpose("trace", "z")
+                vsec = vsec.assign_coords(trace=np.arange(vsec.sizes["trace"]))
+        except GeometryError as err:
+            raise VelocityError(f"{fname} does not match {sname}: {err}") from err
         vsec.attrs.setdefault("source_path", os.fspath(path))
         return cls.from_section(vsec, section, kind=kind)
 
