@@ -114,7 +114,7 @@ def _iter_dask(tasks, options, scheduler):
         raise ClinometryError(f"cannot reach the Dask scheduler at {scheduler}: {err}; check the address") from err
     try:
         futures = client.map(run_task, tasks, options=options, pure=False)
-        for fut in dask_completed(futures):
+        for fut in dask_completed(futures, loop=client.loop):
             yield fut.result()
     finally:
         client.close()

@@ -29,6 +29,7 @@ from __future__ import annotations
 
 import io
 import logging
+import os
 import textwrap
 
 import numpy as np
@@ -352,7 +353,11 @@ def qc_figure(result, section, path, *, horizons=None, title=None):
     else:
         ve_text = "vertical exaggeration unknown (no velocity for this time section)"
     src = res.get("source") or {}
-    name = title or " ".join(str(s) for s in (src.get("file") or src.get("path", ""), src.get("line_label") or src.get("line", "")) if s)
+    base = os.path.basename(str(src.get("path") or section.attrs.get("source_path", "") or "section"))
+    name = title or " ".join(s for s in (base, str(src.get("line_label") or "")) if s)
+    vel = res.get("velocity") or {}
+    if vel.get("default_fallback"):
+        name += "   [default velocity used: depths approximate]"
     ax.set_title(f"{name}\n{ve_text}", fontsize=10, loc="left")
 
     if not margins:
