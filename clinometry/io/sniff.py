@@ -52,6 +52,8 @@ _REV2_MAJOR = 2
 #: (it silently falls back to IBM float); SEG-Y rev 2.0 [2]_ keeps it only
 #: for old tapes (common practice, no source)
 UNSUPPORTED_FORMATS = {4: "4-byte fixed point with gain is obsolete and has no decoder in segyio"}
+_CHECK_HINT = ("; check that the copy is complete, and the sample count (bytes 3221-3222) and "
+               "format (3225-3226) in the binary header")
 _STRUCT = {("big", 2): ">h", ("little", 2): "<h", ("big", 4): ">i", ("little", 4): "<i"}
 
 
@@ -274,7 +276,7 @@ def sniff_segy(path) -> SegyLayout:
     trace_bytes = TRACE_HEADER_BYTES + ns * bps
     if remaining == 0:
         raise SegyReadError(
-            f"{name}: the file has headers but no traces ({size} bytes); nothing to read"
+            f"{name}: the file has headers but no traces ({size} bytes); check that the copy is complete"
         )
 
     def _fits(n):
@@ -290,7 +292,7 @@ def sniff_segy(path) -> SegyLayout:
             f"{name}: the declared trace size is {trace_bytes} bytes (240-byte header + {ns} samples "
             f"({ns_source}) x {bps} bytes, format {fmt}), {what} the {remaining} bytes after the "
             f"headers ({remaining % trace_bytes if remaining >= trace_bytes else remaining} bytes "
-            f"left over): the file is truncated or its sample count or format is wrong{alt}"
+            f"left over): the file is truncated or its sample count or format is wrong{alt or _CHECK_HINT}"
         )
     n_traces = remaining // trace_bytes
     notes = []

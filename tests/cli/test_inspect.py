@@ -1,0 +1,60 @@
+"""clinometry inspect: report on stdout, one-line errors on stderr, exit codes 0/2."""
+
+import json
+from pathlib import Path
+
+import pytest
+
+from clinometry.cli import main
+
+DATA = Path(__file__).resolve().parents[1] / "data"
+
+
+def test_inspect_prints_geometry(capsys):
+    rc = main(["inspect", str(DATA / "segy-reference" / "f3.sgy")])
+    out, err = capsys.readouterr()
+    assert rc == 0 and err == ""
+    # f3.sgy textual header: inlines 111..133, crosslines 875..892; reader-results.json: 414 x 75, 4 ms
+    assert "414 x 75" in out
+    assert "inlines:          111-133 (23)" in out
+    assert "crosslines:       875-892 (18)" in out
+    assert "4 ms" in out and "2-byte signed int (format 3), big-endian" in out
+    assert "C 1 Cropped F3 2-byte integer data set" in out
+
+
+def test_inspect_json(capsys):
+    rc = main(["inspect", str(DATA / "segy-reference" / "delay-scalar.sgy"), "--json", "--no-text"])
+    out, err = capsys.readouterr()
+    info = json.loads(out)
+    # reference README: delay 10000 x time scalar -10 -> 1000 ms; 251 samples at 4 ms
+    assert rc == 0
+    assert (info["z_start"], info["sample_interval"], info["n_samples"]) == (1000.0, 4.0, 251)
+    assert "text_header" not in info
+
+
+@pytest.mark.parametrize("name, content, problem", [
+    ("notes.txt", b"plain text\n" * 500, "not a SEG-Y file"),
+    ("tiny.sgy", b"\x00" * 10, "smaller than the 3600-byte"),
+])
+def test_inspect_bad_input_one_line_exit_2(tmp_path, capsys, name, content, problem):
+    path = tmp_path / name
+    path.write_bytes(content)
+    rc = main(["inspect", str(path)])
+    out, err = capsys.readouterr()
+    assert rc == 2 and out == ""
+    assert err.startswith(f"clinometry: error: {name}: ") and problem in err
+    assert err.count("\n") == 1 and "Traceback" not in err
+
+
+def test_inspect_truncated_reference_file(capsys):
+    rc = main(["inspect", str(DATA / "segy-reference" / "broken.sgy")])
+    _, err = capsys.readouterr()
+    # reference README: broken.sgy is truncated
+    assert rc == 2 and err.startswith("clinometry: error: broken.sgy: ") and "truncated" in err
+    assert err.count("\n") == 1
+
+
+def test_inspect_missing_file(tmp_path, capsys):
+    rc = main(["inspect", str(tmp_path / "nowhere.sgy")])
+    _, err = capsys.readouterr()
+    assert rc == 2 and "nowhere.sgy" in err and err.count("\n") == 1
