@@ -27,6 +27,7 @@ from ..errors import ClinometryError, PluginError
 from ..section import check_section, section_name
 from .geometry import MarginGeometry, SurfaceGeometry, margin_geometry
 from .records import POINT_KEYS, MarginMetrics, Metrics
+from .slope import FLANK_LENGTH_TRACES, base_length_m_for
 from .uncertainty import UNCERTAINTY_DEFAULTS, propagate, uncertainty_settings
 
 __all__ = [
@@ -54,16 +55,21 @@ def _plugins(metrics):
     return {name: load_plugin("metric", name) for name in metrics}
 
 
-def _platform_top_point(geometry: MarginGeometry, values: dict) -> dict | None:
+def _platform_top_point(geometry: MarginGeometry, values: dict, flank_m: float) -> dict | None:
+    """The highest point of the platform top within ``flank_m`` landward of the break.
+
+    Without a break: the highest point of the platform top (or profile).
+    """
     top = geometry.platform_top or geometry.profile
     brk = geometry.profile.shelf_break
     if brk is not None:
-        keep = top.basinward_m <= brk["basinward_m"] + 1e-9
+        keep = (top.basinward_m <= brk["basinward_m"] + 1e-9) & (top.basinward_m >= brk["basinward_m"] - flank_m - 1e-9)
     else:
         keep = np.ones(len(top), dtype=bool)
     if not keep.any():
         return None
-    i = 0  # most landward point of the platform top
+    idx = np.flatnonzero(keep)
+    i = int(idx[np.argmin(top.depth_m[idx])])
     pt = geometry.point(int(top.trace[i]), float(top.z[i]), float(top.depth_m[i]))
     pt["horizon_id"] = top.horizon_id
     pt["depth_min_m"] = float(np.min(top.depth_m[keep]))
@@ -144,6 +150,8 @@ def measure_margin(geometry: MarginGeometry, *, plugins: dict, options: dict | N
     for k in list(missing):
         if k in values and values[k] is not None:
             del missing[k]
+    flank = (options.get("slope", {}).get("flank_length_m")
+             or FLANK_LENGTH_TRACES * geometry.trace_spacing_m) + base_length_m_for(geometry, base_length_m)
     unc = {}
     if settings:
         unc = propagate(geometry, settings=settings, section=section, velocity=velocity, base_length_m=base_length_m)
@@ -151,7 +159,7 @@ def measure_margin(geometry: MarginGeometry, *, plugins: dict, options: dict | N
         direction=geometry.direction,
         values=values,
         uncertainty=unc,
-        platform_top=_platform_top_point(geometry, values),
+        platform_top=_platform_top_point(geometry, values, flank),
         shelf_break=geometry.pick_point(geometry.profile.shelf_break),
         toe=geometry.pick_point(geometry.profile.toe),
         clinoforms=clinoforms,

@@ -24,7 +24,9 @@ slope_max_deg
 topset_gradient_deg, bottomset_gradient_deg
     Least-squares gradient of depth against basinward distance over
     ``flank_length_m`` landward of the break (platform top) and basinward of
-    the toe (basin floor); signed, positive when deepening basinward.
+    the toe (basin floor), leaving out one base length next to the break /
+    toe so the rollover itself does not tilt the fit; signed, positive when
+    deepening basinward.
 break_curvature_per_km, toe_curvature_per_km
     Curvature ``kappa = d'' / (1 + d'^2)^(3/2)`` of a quadratic fitted to the
     profile within ``curvature_window_m`` of the break / toe, per km;
@@ -282,12 +284,13 @@ def slope_metrics(
     # topset: platform top (or the profile) landward of the break
     if brk:
         top = geometry.platform_top or prof
-        b, d = _window(top, brk["basinward_m"] - flank, brk["basinward_m"])
+        b, d = _window(top, brk["basinward_m"] - base - flank, brk["basinward_m"] - base)
         if b.size >= _MIN_GRADIENT_POINTS and np.ptp(b) > 0:
             values["topset_gradient_deg"] = _gradient_deg(b, d)
         else:
             missing["topset_gradient_deg"] = (
-                f"only {b.size} platform-top point(s) within {flank:.0f} m landward of the break; need {_MIN_GRADIENT_POINTS}")
+                f"only {b.size} platform-top point(s) from {base + flank:.0f} to {base:.0f} m landward of the break; "
+                f"need {_MIN_GRADIENT_POINTS}")
         b, d = _window(prof, brk["basinward_m"] - cwin, brk["basinward_m"] + cwin)
         if b.size >= _MIN_CURVATURE_POINTS:
             values["break_curvature_per_km"] = _curvature_per_km(b, d, brk["basinward_m"])
@@ -298,12 +301,13 @@ def slope_metrics(
         for k in ("topset_gradient_deg", "break_curvature_per_km"):
             missing[k] = prof.break_reason
     if toe:
-        b, d = _window(prof, toe["basinward_m"], toe["basinward_m"] + flank)
+        b, d = _window(prof, toe["basinward_m"] + base, toe["basinward_m"] + base + flank)
         if b.size >= _MIN_GRADIENT_POINTS and np.ptp(b) > 0:
             values["bottomset_gradient_deg"] = _gradient_deg(b, d)
         else:
             missing["bottomset_gradient_deg"] = (
-                f"only {b.size} profile point(s) within {flank:.0f} m basinward of the toe; need {_MIN_GRADIENT_POINTS}")
+                f"only {b.size} profile point(s) from {base:.0f} to {base + flank:.0f} m basinward of the toe; "
+                f"need {_MIN_GRADIENT_POINTS}")
         b, d = _window(prof, toe["basinward_m"] - cwin, toe["basinward_m"] + cwin)
         if b.size >= _MIN_CURVATURE_POINTS:
             values["toe_curvature_per_km"] = -_curvature_per_km(b, d, toe["basinward_m"])

@@ -156,9 +156,24 @@ def test_measure_fills_contract_points(build_margin, planar):
     assert mm.shelf_break["y"] == pytest.approx(2000.0 + 0.8 * 2000.0)
     assert mm.shelf_break["depth_m"] == pytest.approx(200.0)
     assert mm.toe["depth_m"] == pytest.approx(200.0 + 1000.0 * np.tan(np.radians(10.0)))
-    assert mm.platform_top["trace"] == 120 and mm.platform_top["depth_m"] == pytest.approx(200.0)
+    # flat top: the first (most landward) of the equally high points within flank + base
+    # = 20 * 25 + 4 * 25 = 600 m landward of the break, basinward trace 40 - 24 = 16 -> section trace 104
+    assert mm.platform_top["trace"] == 104 and mm.platform_top["depth_m"] == pytest.approx(200.0)
+    assert mm.platform_top["depth_min_m"] == mm.platform_top["depth_max_m"] == pytest.approx(200.0)
     assert mm.confidence == pytest.approx(0.9)
     assert len(mm.profile["depth_m"]) == 121
     import xarray.testing
 
     xarray.testing.assert_identical(section, before)
+
+
+def test_platform_top_point_is_the_rim(build_margin, planar):
+    # a rim 8 m high 200 m landward of the break on an otherwise flat top at 200 m
+    def top(x):
+        x = np.asarray(x, dtype=float)
+        return 200.0 - 8.0 * np.exp(-((x - 800.0) / 50.0) ** 2)
+
+    picks, section = build_margin(planar(10.0), top_fn=top)
+    mm = measure(picks, section, uncertainty=False).margins[0]
+    assert mm.platform_top["trace"] == 32 and mm.platform_top["depth_m"] == pytest.approx(192.0)
+    assert mm.platform_top["horizon_id"] == 1
