@@ -12,11 +12,12 @@ eustatic trend and (optionally differential) linear subsidence.  In each step:
    (no production when exposed), optionally plus a second, deeper
    production mode, a Gaussian in water depth, for communities that produce
    below the euphotic zone (see [2]_ for such deeper factories).  Production
-   is capped by accommodation (a column cannot build above sea level); the
-   excess is exported.
-2. **Reworking**: a fraction of what is produced in water shallower than the
-   reworking depth (storm wave base, a hydraulic-competence threshold) is
-   exported, together with the excess of step 1.
+   is capped by accommodation (a column cannot build above sea level).
+2. **Reworking**: a fraction (``export_fraction``) of what is produced in
+   water shallower than the reworking depth (storm wave base, a
+   hydraulic-competence threshold) is exported at once; of the rest, what
+   exceeds the accommodation is exported too.  Deeper production stays in
+   place.
 3. **Slope-limited deposition**: the exported volume is laid down basinward
    of the margin crest (the most basinward column inside the reworking zone)
    as a wedge whose front stands at the stable (angle-of-repose) slope of
@@ -70,10 +71,6 @@ logger = logging.getLogger(__name__)
 
 #: facies codes of the stratal units (index into this tuple)
 FACIES = ("substrate", "platform", "slope", "basin", "overburden")
-
-#: fraction of the stable angle above which a new deposit counts as slope
-#: facies rather than basin (our choice, no published threshold)
-_SLOPE_FACIES_FRACTION = 0.3
 
 
 @dataclass(frozen=True)
@@ -340,33 +337,39 @@ def grow(params: GrowthParameters) -> Stratigraphy:
         sl_hist[k] = sl
         w = sl - elev
         produced = production_rate(w, **prod_kw) * p.step_kyr
-        kept = np.minimum(produced, np.maximum(w, 0.0))
-        excess = produced - kept
         shallow = (w < p.reworking_depth_m) & (w > 0)
-        # potential production beyond accommodation is shed too (highstand
-        # shedding), with the same efficiency as reworked sediment
-        exported_here = p.export_fraction * (np.where(shallow, kept, 0.0) + excess)
-        elev = elev + kept - np.where(shallow, p.export_fraction * kept, 0.0)
-        elev = elev + p.pelagic_m_per_kyr * p.step_kyr
+        # above the reworking depth a fraction is swept off at once; of the
+        # rest, what exceeds the accommodation is shed as well (highstand
+        # shedding); below the reworking depth all production stays in place
+        stays = np.where(shallow, (1.0 - p.export_fraction) * produced, produced)
+        kept = np.minimum(stays, np.maximum(w, 0.0))
+        exported_here = np.where(shallow, produced - kept, 0.0)
+        elev = elev + kept + p.pelagic_m_per_kyr * p.step_kyr
         volume = float(exported_here.sum() * p.dx_m)
         # the crest: outermost column whose top lies in the reworking zone
         w_after = sl - elev
         in_zone = np.flatnonzero(w_after < p.reworking_depth_m)
+        insitu = elev - surfaces[k - 1]
+        wedge = np.zeros(n)
+        fines = np.full(n, p.pelagic_m_per_kyr * p.step_kyr)
         if in_zone.size and volume > 0:
             for d in dirs:
                 i_crest = int(in_zone[-1] if d > 0 else in_zone[0])
                 share = volume / len(dirs)
                 top = min(float(elev[i_crest]), sl)
-                v_slope = share * (1.0 - p.fine_fraction)
-                elev, i_toe = _wedge(elev, x, i_crest, top, v_slope, tan_a, d)
-                elev = elev + _fines(x, x[i_toe], d, share * p.fine_fraction, p.fine_decay_m)
+                before = elev
+                elev, i_toe = _wedge(elev, x, i_crest, top, share * (1.0 - p.fine_fraction), tan_a, d)
+                wedge += elev - before
+                f = _fines(x, x[i_toe], d, share * p.fine_fraction, p.fine_decay_m)
+                elev = elev + f
+                fines += f
         new = np.maximum(elev, surfaces[k - 1])
         surfaces[k] = new
-        slope = np.degrees(np.arctan(np.abs(np.gradient(new, x))))
-        fc = np.where(sl - new < p.reworking_depth_m, FACIES.index("platform"),
-                      np.where(slope > _SLOPE_FACIES_FRACTION * p.stable_slope_deg,
-                               FACIES.index("slope"), FACIES.index("basin")))
-        facies[k] = fc
+        # facies of the new unit: the component that made most of it
+        insitu = insitu - p.pelagic_m_per_kyr * p.step_kyr
+        comp = np.stack([insitu, wedge, fines])
+        codes = np.array([FACIES.index("platform"), FACIES.index("slope"), FACIES.index("basin")])
+        facies[k] = codes[np.argmax(comp, axis=0)]
     final_sl = float(sl_hist[-1])
     logger.debug("grew %d steps on %d columns", p.n_steps, n)
     return Stratigraphy(x_m=x, elevation_m=surfaces, facies=facies, sea_level_m=sl_hist,

@@ -66,7 +66,7 @@ class Scenario:
     snr: float | None = 8.0
     dt_ms: float = 2.0
     dz_m: float = 2.5
-    n_samples: int = 300
+    n_samples: int = 260
     delay_ms: float = 0.0
     azimuth_deg: float = 60.0
     origin_xy_m: tuple = (412000.0, 5318000.0)
@@ -87,8 +87,8 @@ SCENARIOS = {
             "homoclinal ramp: light-dependent production reaching deep water, "
             "storm reworking to 20 m, sediment stable at 0.8 degrees",
             "ramp", "ascending",
-            _G(length_m=10000.0, dx_m=25.0, n_steps=40, step_kyr=10.0,
-               substrate_profile=((0.0, 5.0), (0.7, 110.0), (1.0, 115.0)), gmax_m_per_kyr=0.2,
+            _G(length_m=16000.0, dx_m=40.0, n_steps=40, step_kyr=10.0,
+               substrate_profile=((0.0, 5.0), (0.4, 90.0), (1.0, 95.0)), gmax_m_per_kyr=0.2,
                extinction_per_m=0.04, reworking_depth_m=20.0, export_fraction=0.1,
                stable_slope_deg=0.8, subsidence_m_per_kyr=0.1, fine_decay_m=2000.0),
             datum_depth_m=200.0, n_samples=200, peak_hz=35.0),
@@ -98,7 +98,7 @@ SCENARIOS = {
             "rimmed_shelf", "ascending",
             _G(length_m=5000.0, dx_m=12.5, n_steps=40, gmax_m_per_kyr=0.5,
                subsidence_m_per_kyr=0.1, stable_slope_deg=20.0),
-            n_samples=300),
+            n_samples=260),
         Scenario(
             "steep_margin",
             "reef-rimmed margin, boundstone front stable at 40 degrees, 500 m of relief",
@@ -106,7 +106,7 @@ SCENARIOS = {
             _G(length_m=4000.0, dx_m=12.5, n_steps=40, gmax_m_per_kyr=0.5,
                substrate_profile=((0.0, 5.0), (0.3, 20.0), (0.4, 500.0), (1.0, 520.0)),
                subsidence_m_per_kyr=0.1, stable_slope_deg=40.0, fine_fraction=0.05),
-            n_samples=450, peak_hz=30.0),
+            n_samples=330, peak_hz=30.0),
         Scenario(
             "isolated_platform",
             "isolated platform on a fault-block high shedding to both sides",
@@ -115,16 +115,16 @@ SCENARIOS = {
                substrate_profile=((0.0, 300.0), (0.35, 290.0), (0.45, 10.0), (0.55, 10.0),
                                   (0.65, 290.0), (1.0, 300.0)),
                subsidence_m_per_kyr=0.1, stable_slope_deg=25.0),
-            n_samples=300),
+            n_samples=260),
         Scenario(
             "rising_shelf",
             "rimmed shelf under fast subsidence: strongly ascending shelf-break trajectory; "
             "linear velocity law",
             "rimmed_shelf", "ascending",
-            _G(length_m=5000.0, dx_m=12.5, n_steps=40, gmax_m_per_kyr=0.6,
+            _G(length_m=5000.0, dx_m=12.5, n_steps=40, gmax_m_per_kyr=1.2,
                subsidence_m_per_kyr=0.4, stable_slope_deg=22.0,
                substrate_profile=((0.0, 5.0), (0.25, 20.0), (0.35, 350.0), (1.0, 370.0))),
-            velocity_m_s=2000.0, velocity_k_per_s=0.6, n_samples=450),
+            velocity_m_s=2000.0, velocity_k_per_s=0.6, n_samples=340),
         Scenario(
             "level_shelf",
             "rimmed shelf under a still sea level and no subsidence: flat trajectory; "
@@ -132,37 +132,38 @@ SCENARIOS = {
             "rimmed_shelf", "flat",
             _G(length_m=5000.0, dx_m=12.5, n_steps=40, gmax_m_per_kyr=0.5,
                stable_slope_deg=20.0),
-            flip=True, n_samples=300),
+            flip=True, n_samples=260),
         Scenario(
             "falling_shelf",
             "rimmed shelf during a relative sea-level fall: descending trajectory",
             "rimmed_shelf", "descending",
             _G(length_m=5000.0, dx_m=12.5, n_steps=40, gmax_m_per_kyr=0.5,
                eustasy_trend_m_per_kyr=-0.1, stable_slope_deg=20.0),
-            datum_depth_m=200.0, n_samples=300),
+            datum_depth_m=200.0, n_samples=260),
         Scenario(
             "deep_factory_shelf",
-            "rimmed shelf with a second production maximum at 65 m water depth "
-            "(microbial/skeletal community below the euphotic zone)",
-            "rimmed_shelf", "ascending",
-            _G(length_m=5000.0, dx_m=12.5, n_steps=40, gmax_m_per_kyr=0.5,
-               subsidence_m_per_kyr=0.1, stable_slope_deg=20.0,
-               deep_gmax_m_per_kyr=0.8, deep_depth_m=65.0, deep_width_m=12.0),
-            n_samples=300),
+            "shelf whose main factory sits at 65 m water depth (a Gaussian production "
+            "mode below the euphotic zone) with a weak surface factory: deep crest, "
+            "steepest slope in the deep factory (trajectory not designed)",
+            "rimmed_shelf", None,
+            _G(length_m=5000.0, dx_m=12.5, n_steps=40, gmax_m_per_kyr=0.2,
+               subsidence_m_per_kyr=0.1, stable_slope_deg=18.0,
+               deep_gmax_m_per_kyr=0.6, deep_depth_m=65.0, deep_width_m=12.0),
+            n_samples=260),
         Scenario(
             "noisy_shelf",
             "the rimmed shelf at SNR 2 with a 20 Hz wavelet",
             "rimmed_shelf", "ascending",
             _G(length_m=5000.0, dx_m=12.5, n_steps=40, gmax_m_per_kyr=0.5,
                subsidence_m_per_kyr=0.1, stable_slope_deg=20.0),
-            snr=2.0, peak_hz=20.0, n_samples=300),
+            snr=2.0, peak_hz=20.0, n_samples=260),
         Scenario(
             "flat_basin",
             "no margin: flat-lying basin strata from pelagic rain on a level floor",
             None, None,
             _G(length_m=5000.0, dx_m=12.5, n_steps=40, gmax_m_per_kyr=0.0,
                substrate_profile=((0.0, 300.0), (1.0, 300.0)), pelagic_m_per_kyr=0.05),
-            n_samples=300),
+            n_samples=260),
     )
 }
 

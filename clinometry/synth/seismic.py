@@ -174,7 +174,7 @@ def impedance_grid(depth_surfaces_m, facies, z_depth_m, *, rng, cycle_fraction=0
     # layer index per sample: number of surfaces deeper than the sample
     out = np.empty((n_x, z_depth_m.size))
     n_ob = int(np.ceil((z_depth_m.max() + 1.0) / overburden_layer_m)) + 1
-    ob_layers = FACIES_IMPEDANCE["overburden"] * (1.0 + 2 * cycle_fraction * rng.standard_normal(n_ob))
+    ob_layers = FACIES_IMPEDANCE["overburden"] * (1.0 + 0.5 * cycle_fraction * rng.standard_normal(n_ob))
     ob = ob_layers[np.clip((z_depth_m // overburden_layer_m).astype(int), 0, n_ob - 1)]
     for c in range(n_x):
         col = depth_surfaces_m[:, c]
@@ -242,7 +242,7 @@ def render(depth_surfaces_m, facies, *, z_out, domain, velocity, peak_hz, rng,
     dz = float(z_out[1] - z_out[0])
     fine = z_out[0] + np.arange(z_out.size * oversample) * dz / oversample
     fine_depth = velocity.depth_m(fine) if domain == "twt" else fine
-    imp = impedance_grid(depth_surfaces_m, facies, fine_depth, rng=rng, cycle_fraction=0.08)
+    imp = impedance_grid(depth_surfaces_m, facies, fine_depth, rng=rng, cycle_fraction=0.1)
     refl = reflectivity(imp)
     if domain == "twt":
         dt_s = dz / oversample / 1000.0

@@ -58,8 +58,9 @@ __all__ = [
 SMOOTHING_M = 60.0
 #: base length of the secant used for slope_max_deg, m (project choice)
 BASE_LENGTH_M = 150.0
-#: trajectory angles within +/- this are "flat", degrees (project choice)
-TRAJECTORY_FLAT_DEG = 0.5
+#: trajectory angles within +/- this are "flat", degrees (project choice; the
+#: same value as the trajectory metric of clinometry.metrics uses)
+TRAJECTORY_FLAT_DEG = 0.1
 #: a profile with less break-to-toe relief has no margin, m (project choice)
 MIN_RELIEF_M = 10.0
 
