@@ -8,6 +8,13 @@ to a classifier plugin of the ``clinometry.classifiers`` entry-point group
 Thresholds come from the cited table
 :data:`~clinometry.classify.thresholds.DEFAULT_THRESHOLDS`, overridden by a
 mapping or a TOML file.
+
+.. caution::
+   A margin family is an interpretation from geometry alone, with a
+   confidence and reasons to check; it is not a prediction of reservoir,
+   seal or slope stability.  Do not base drilling or storage decisions on it
+   without calibration to wells and outcrops, review by licensed
+   professionals, and the local regulations.
 """
 
 from __future__ import annotations

@@ -14,6 +14,14 @@ options) -> dict``.  The keys ``"clinoforms"``, ``"trajectory"`` and
 ``"missing"`` of its dict fill the matching fields of
 :class:`~clinometry.metrics.records.MarginMetrics`; every other key is a
 named value whose name ends in its unit.
+
+.. caution::
+   Slopes, depths and reliefs measured on seismic are interpretation aids
+   with the uncertainty reported beside them; they rest on the velocity
+   model and the picks.  Do not use them on their own for well planning,
+   drilling, geohazard or storage-site decisions: calibrate with well ties,
+   have the results reviewed by licensed professionals, and follow local
+   regulations.
 """
 
 from __future__ import annotations
@@ -194,7 +202,8 @@ def measure(picks, section, *, velocity=None, metrics=None, uncertainty=True, se
     options : dict of str -> dict, optional
         Keyword options per metric plugin, e.g. ``{"slope": {"flank_length_m": 800}}``.
     base_length_m : float, m, optional
-        Base of the max-slope secant (default 4 trace spacings).
+        Base of the max-slope secant (default: see
+        :func:`clinometry.metrics.slope.base_length_m_for`).
 
     Returns
     -------

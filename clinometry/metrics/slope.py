@@ -13,10 +13,11 @@ slope_mean_deg
     ``atan(relief_m / foreset_width_m)``: the mean declivity of the foreset.
 slope_max_deg
     The steepest *secant* slope over a horizontal base of ``base_length_m``
-    between break and toe.  The base is tied to the data: by default
-    :data:`BASE_LENGTH_TRACES` trace spacings, so a one-sample step in a
-    pick (a few metres) cannot become a slope of tens of degrees, while a
-    foreset a few hundred metres wide is still resolved.  Where break and toe
+    between break and toe.  The base is tied to the data: by default the
+    longer of :data:`BASE_LENGTH_TRACES` trace spacings and the length over
+    which one depth sample is a slope of :data:`SLOPE_QUANTUM_DEG` (about
+    140 m for 2.5 m samples), so a one-sample step in a pick cannot become a
+    steep slope, while a foreset a few hundred metres wide is still resolved.  Where break and toe
     are closer than one base, it is the break-to-toe secant (= mean slope).
     When break or toe is missing, the window runs to the end of the profile
     and ``slope_window`` says so: the steepest part of a margin is a real
@@ -49,6 +50,7 @@ import numpy as np
 
 __all__ = [
     "BASE_LENGTH_TRACES",
+    "SLOPE_QUANTUM_DEG",
     "FLANK_LENGTH_TRACES",
     "CURVATURE_WINDOW_BASES",
     "slope_metrics",
@@ -63,6 +65,10 @@ logger = logging.getLogger(__name__)
 #: practice, no source: long enough that one depth sample over the base is
 #: a few degrees at most, short enough to resolve a foreset of ~10 traces)
 BASE_LENGTH_TRACES = 4
+#: one depth sample over the default base changes the slope by at most this,
+#: degrees (chosen here; common practice, no source: picks are quantised to
+#: one sample, so a finer base reports sampling steps as slope)
+SLOPE_QUANTUM_DEG = 1.0
 #: length of the topset / bottomset gradient fit, in trace spacings (chosen here)
 FLANK_LENGTH_TRACES = 20
 #: half-width of the curvature fit window, in base lengths (chosen here)
@@ -74,12 +80,18 @@ _MIN_CURVATURE_POINTS = 5
 
 
 def base_length_m_for(geometry, base_length_m=None) -> float:
-    """The base length of the max-slope secant: given, or ``BASE_LENGTH_TRACES`` trace spacings."""
+    """The base length of the max-slope secant, m.
+
+    Given, or the longer of :data:`BASE_LENGTH_TRACES` trace spacings and
+    the length over which one depth sample is a slope of
+    :data:`SLOPE_QUANTUM_DEG` (``depth_sample_m / tan(SLOPE_QUANTUM_DEG)``).
+    """
     if base_length_m is not None:
         if not np.isfinite(base_length_m) or base_length_m <= 0:
             raise ValueError(f"{geometry.name}: base_length_m must be > 0, got {base_length_m!r}")
         return float(base_length_m)
-    return BASE_LENGTH_TRACES * geometry.trace_spacing_m
+    vertical = geometry.depth_sample_m / np.tan(np.radians(SLOPE_QUANTUM_DEG))
+    return float(max(BASE_LENGTH_TRACES * geometry.trace_spacing_m, vertical))
 
 
 def grid_surface(surface, step_m: float):
@@ -239,8 +251,8 @@ def slope_metrics(
     geometry : MarginGeometry
         From :func:`clinometry.metrics.geometry.margin_geometry`.
     base_length_m : float, m, optional
-        Base of the maximum-slope secant; default
-        :data:`BASE_LENGTH_TRACES` trace spacings.
+        Base of the maximum-slope secant; default from
+        :func:`base_length_m_for`.
     flank_length_m : float, m, optional
         Length of the topset and bottomset fits; default
         :data:`FLANK_LENGTH_TRACES` trace spacings.

@@ -26,7 +26,14 @@ def test_planar_10deg_foreset_depth_section(build_margin, planar):
     assert_allclose(v["topset_gradient_deg"], 0.0, atol=1e-9)
     assert_allclose(v["bottomset_gradient_deg"], 0.0, atol=1e-9)
     assert v["slope_window"] == "break_to_toe"
-    assert v["slope_base_length_m"] == pytest.approx(100.0)  # 4 traces of 25 m
+
+
+@pytest.mark.parametrize("dz,expected", [(4.0, 4.0 / np.tan(np.radians(1.0))), (0.5, 4 * 25.0)])
+def test_default_base_length_tied_to_sampling(build_margin, planar, dz, expected):
+    # the longer of 4 trace spacings and the length over which one depth sample
+    # is a 1 deg slope: dz / tan(1 deg) (trigonometry, common practice, no source)
+    v, _ = _slope(*build_margin(planar(10.0), dz=dz))
+    assert v["slope_base_length_m"] == pytest.approx(expected)
 
 
 @pytest.mark.parametrize("v_m_s", [2500.0, 4000.0])
@@ -102,7 +109,7 @@ def test_max_slope_base_length_smooths_one_sample_step(build_margin):
     # a 5 m step between two traces on an otherwise flat profile: over a 100 m
     # base the steepest secant is atan(5 / 100) (trigonometry, common practice, no source)
     picks, section = build_margin(lambda x: 300.0 + 5.0 * (np.asarray(x) >= 1500.0))
-    v, _ = _slope(picks, section)
+    v, _ = _slope(picks, section, base_length_m=100.0)
     assert_allclose(v["slope_max_deg"], np.degrees(np.arctan(5.0 / 100.0)), rtol=1e-9)
     v50, _ = _slope(picks, section, base_length_m=50.0)
     assert_allclose(v50["slope_max_deg"], np.degrees(np.arctan(5.0 / 50.0)), rtol=1e-9)
@@ -147,7 +154,7 @@ def test_clinoform_heights_and_median(build_margin, planar):
 def test_measure_fills_contract_points(build_margin, planar):
     picks, section = build_margin(planar(10.0), direction="-")
     before = section.copy(deep=True)
-    mm = measure(picks, section, uncertainty=False).margins[0]
+    mm = measure(picks, section, uncertainty=False, base_length_m=100.0).margins[0]
     # break at basinward trace 40 of a "-" line of 121 traces is section trace 80
     assert mm.shelf_break["trace"] == 80
     assert mm.shelf_break["distance_m"] == pytest.approx(80 * 25.0)
