@@ -26,6 +26,7 @@ from .models import (
     VelocityModel,
     velocity_from_dict,
 )
+from ._matching import LATERAL_MODES
 from .section_velocity import SectionVelocity
 
 logger = logging.getLogger(__name__)
@@ -127,6 +128,7 @@ def velocity_from_options(
     section=None,
     *,
     velocity_kind: str = "interval",
+    velocity_lateral: str = "exact",
 ):
     """Choose the velocity model from command-line-like options.
 
@@ -147,6 +149,10 @@ def velocity_from_options(
         The seismic section; needed for a velocity SEG-Y.
     velocity_kind : {"interval", "rms"}
         How to read ``velocity_file`` velocities.
+    velocity_lateral : {"exact", "linear"}
+        For a velocity SEG-Y: require a velocity trace for every seismic
+        trace (``"exact"``), or interpolate inside sparse velocity control
+        (``"linear"``, see :meth:`SectionVelocity.from_section`).
 
     Returns
     -------
@@ -186,6 +192,10 @@ def velocity_from_options(
             f"{section_name(section)}: domain {domain!r} was given but the section is in {sec_domain!r}; "
             "read the file with the same domain"
         )
+    if velocity_lateral not in LATERAL_MODES:
+        raise VelocityError(f"velocity lateral mode must be one of {LATERAL_MODES}, got {velocity_lateral!r}")
+    if velocity_lateral != "exact" and velocity_file is None:
+        raise VelocityError(f"lateral velocity interpolation {velocity_lateral!r} applies to a velocity SEG-Y only")
     if velocity_kind != "interval" and velocity_file is None:
         raise VelocityError(f"velocity kind {velocity_kind!r} applies to a velocity file only; drop it or give --velocity-file")
     if domain == "depth":
@@ -216,14 +226,14 @@ def velocity_from_options(
             raise VelocityError(f"velocity_linear needs two numbers (v0 in m/s, k in 1/s), got {velocity_linear!r}") from err
         model = LinearVelocity(v0, k)
     elif velocity_file is not None:
-        model = _model_from_file(velocity_file, section, velocity_kind)
+        model = _model_from_file(velocity_file, section, velocity_kind, velocity_lateral)
     else:
         model = ConstantVelocity(DEFAULT_VELOCITY_M_S, fallback=DEFAULT_VELOCITY_NOTE)
     logger.info("velocity model: %s", model.describe())
     return model
 
 
-def _model_from_file(path, section, kind):
+def _model_from_file(path, section, kind, lateral):
     fname = os.path.basename(os.fspath(path))
     if not os.path.isfile(path):
         raise VelocityError(f"{fname}: velocity file not found (looked for {os.fspath(path)!r}); check the path")
@@ -233,5 +243,7 @@ def _model_from_file(path, section, kind):
                 f"{fname}: a velocity SEG-Y is matched trace by trace to the seismic, so the section is needed "
                 "(pass section=)"
             )
-        return SectionVelocity.from_segy(path, section=section, kind=kind)
+        return SectionVelocity.from_segy(path, section=section, kind=kind, lateral=lateral)
+    if lateral != "exact":
+        raise VelocityError(f"{fname}: lateral velocity interpolation applies to a velocity SEG-Y, not to a table")
     return read_velocity_table(path, kind=kind)

@@ -30,6 +30,7 @@ from ..errors import GeometryError, VelocityError
 from ..section import section_name
 from ._checks import MS_PER_S, check_velocities
 from .dix import rms_to_interval
+from ._matching import LATERAL_MODES, lines_to_read, match_traces
 from .models import VelocityModel
 
 logger = logging.getLogger(__name__)
@@ -213,7 +214,7 @@ class SectionVelocity(VelocityModel):
 
     # -- building from sections and files -----------------------------------
     @classmethod
-    def from_section(cls, velocity_section, section, *, kind: str = "interval") -> "SectionVelocity":
+    def from_section(cls, velocity_section, section, *, kind: str = "interval", lateral: str = "exact") -> "SectionVelocity":
         """Match a velocity section (DataArray) to a seismic section, trace by trace.
 
         Parameters
@@ -224,11 +225,16 @@ class SectionVelocity(VelocityModel):
         section : xarray.DataArray, dims ("trace", "z")
             The seismic section the velocities are for.
         kind : {"interval", "rms"}
+        lateral : {"exact", "linear"}
+            ``"exact"``: every seismic trace needs its own velocity trace.
+            ``"linear"``: traces between velocity CDPs (2D) or inside a
+            coarser regular inline/crossline grid (3D) get velocities
+            interpolated linearly (bilinearly in 3D); never outside it.
 
         Returns
         -------
         SectionVelocity
-            One velocity trace per seismic trace.
+            One velocity trace per seismic trace; ``matched_by`` says how.
 
         Raises
         ------
@@ -241,7 +247,17 @@ class SectionVelocity(VelocityModel):
         Matching keys, first usable wins: (inline, crossline) when both
         sections have them and they are unique in the velocity section;
         then CDP; then position when the trace counts agree (common
-        practice, no source).
+        practice, no source).  Velocities (interval or RMS as given) are
+        interpolated before any Dix conversion.
+
+        Examples
+        --------
+        >>> from clinometry.section import make_section
+        >>> vel = make_section(np.array([[2000.0, 2000.0], [3000.0, 3000.0]]), z=[0, 1000], cdp=[10, 20])
+        >>> seis = make_section(np.zeros((3, 2)), z=[0, 4], cdp=[10, 15, 20])
+        >>> m = SectionVelocity.from_section(vel, seis, lateral="linear")
+        >>> m.matched_by, m.depth_m(1000, trace=[0, 1, 2]).tolist()
+        ('cdp, interpolated', [1000.0, 1250.0, 1500.0])
         """
         vname = section_name(velocity_section)
         sname = section_name(section)
@@ -251,15 +267,16 @@ class SectionVelocity(VelocityModel):
                 "give a velocity file sampled in TWT (ms)"
             )
         vs = velocity_section.transpose("trace", "z")
-        idx, how = _match_traces(vs, section, vname, sname)
-        vel = np.asarray(vs.values, dtype=np.float64)[idx]
+        index, weight, how = match_traces(vs, section, vname, sname, lateral=lateral)
+        values = np.asarray(vs.values, dtype=np.float64)
+        vel = np.einsum("tk,tkz->tz", weight, values[index])
         src = os.path.basename(velocity_section.attrs.get("source_path", "")) or vname
         model = cls(vel, twt_ms=np.asarray(vs["z"].values, dtype=np.float64), kind=kind, source=src, matched_by=how)
         logger.info("velocity %s matched to %s by %s", src, sname, how)
         return model
 
     @classmethod
-    def from_segy(cls, path, *, section, kind: str = "interval", **read_options) -> "SectionVelocity":
+    def from_segy(cls, path, *, section, kind: str = "interval", lateral: str = "exact", **read_options) -> "SectionVelocity":
         """Read a velocity SEG-Y (2D section or 3D volume) and match it to ``section``.
 
         Parameters
@@ -268,8 +285,11 @@ class SectionVelocity(VelocityModel):
             Velocity SEG-Y, sampled in two-way time, velocities in m/s.
         section : xarray.DataArray, dims ("trace", "z")
             Seismic section to match.  For a 3D volume the section needs
-            ``inline`` and ``crossline`` coordinates.
+            ``inline`` and ``crossline`` coordinates; it may be an inline, a
+            crossline or any line through the volume.
         kind : {"interval", "rms"}
+        lateral : {"exact", "linear"}
+            See :meth:`from_section`.
         **read_options
             Passed to :func:`clinometry.io.read_section` (e.g. ``header_bytes``).
 
@@ -283,14 +303,23 @@ class SectionVelocity(VelocityModel):
             Geometry mismatch between the velocity file and the section.
         SegyReadError
             The file cannot be read (from :mod:`clinometry.io`).
-        """
-        from ..io import is_3d, iter_sections, read_section
 
+        Notes
+        -----
+        Only the velocity lines the section needs are read (the same inline
+        or crossline, or the ones bracketing it with ``lateral="linear"``),
+        never the whole volume at once.
+        """
+        from ..io import is_3d, iter_sections, line_numbers, read_section
+
+        if lateral not in LATERAL_MODES:
+            raise VelocityError(f"lateral must be one of {LATERAL_MODES}, got {lateral!r}")
         fname = os.path.basename(os.fspath(path))
         sname = section_name(section)
-        if not is_3d(path, header_bytes=read_options.get("header_bytes")):
+        hb = read_options.get("header_bytes")
+        if not is_3d(path, header_bytes=hb):
             vsec = read_section(path, domain="twt", **read_options)
-            return cls.from_section(vsec, section, kind=kind)
+            return cls.from_section(vsec, section, kind=kind, lateral=lateral)
         if "inline" not in section.coords or "crossline" not in section.coords:
             raise VelocityError(
                 f"{fname} is a 3D velocity volume but {sname} has no inline/crossline "
@@ -298,61 +327,27 @@ class SectionVelocity(VelocityModel):
             )
         ils = np.unique(section["inline"].values)
         xls = np.unique(section["crossline"].values)
+        # read along the direction that needs the fewest velocity lines
+        direction, wanted = ("inline", ils) if ils.size <= xls.size else ("crossline", xls)
+        available = line_numbers(path, direction=direction, header_bytes=hb)
+        need = lines_to_read(available, wanted, lateral=lateral)
+        if not need:
+            raise VelocityError(
+                f"{fname} does not match {sname}: the line needs {direction}s {wanted.min()}-{wanted.max()} but the "
+                f"velocity volume has {direction}s {min(available)}-{max(available)}; give a velocity volume that "
+                "covers the line"
+            )
         try:
-            if ils.size == 1:
-                vsec = read_section(path, inline=int(ils[0]), domain="twt", **read_options)
-            elif xls.size == 1:
-                vsec = read_section(path, crossline=int(xls[0]), domain="twt", **read_options)
-            else:  # an arbitrary line through the volume: gather the inlines it crosses
+            if len(need) == 1:
+                vsec = read_section(path, domain="twt", **{direction: need[0]}, **read_options)
+            else:
                 import xarray as xr
 
-                parts = list(iter_sections(path, direction="inline", lines=[int(i) for i in ils], domain="twt", **read_options))
+                parts = list(iter_sections(path, direction=direction, lines=need, domain="twt", **read_options))
                 vsec = xr.concat(parts, dim="trace", combine_attrs="override").transpose("trace", "z")
                 vsec = vsec.assign_coords(trace=np.arange(vsec.sizes["trace"]))
         except GeometryError as err:
             raise VelocityError(f"{fname} does not match {sname}: {err}") from err
         vsec.attrs.setdefault("source_path", os.fspath(path))
-        return cls.from_section(vsec, section, kind=kind)
-
-
-def _coord(sec, name):
-    return np.asarray(sec[name].values) if name in sec.coords else None
-
-
-def _match_traces(vs, section, vname, sname):
-    """Row of ``vs`` for each trace of ``section`` and the key used."""
-    n_sec = section.sizes["trace"]
-    vil, vxl, vcdp = _coord(vs, "inline"), _coord(vs, "crossline"), _coord(vs, "cdp")
-    sil, sxl, scdp = _coord(section, "inline"), _coord(section, "crossline"), _coord(section, "cdp")
-    if vil is not None and vxl is not None and sil is not None and sxl is not None:
-        keys = list(zip(vil.tolist(), vxl.tolist()))
-        if len(set(keys)) == len(keys):
-            lookup = {k: i for i, k in enumerate(keys)}
-            idx = []
-            for j, k in enumerate(zip(sil.tolist(), sxl.tolist())):
-                if k not in lookup:
-                    raise VelocityError(
-                        f"{vname} does not match {sname}: trace {j} (inline {k[0]}, crossline {k[1]}) has no "
-                        f"velocity trace; the velocity covers inlines {vil.min()}-{vil.max()}, crosslines "
-                        f"{vxl.min()}-{vxl.max()}; give a velocity volume that covers the line"
-                    )
-                idx.append(lookup[k])
-            return np.asarray(idx, dtype=np.int64), "inline/crossline"
-    if vcdp is not None and scdp is not None and np.unique(vcdp).size == vcdp.size:
-        lookup = {k: i for i, k in enumerate(vcdp.tolist())}
-        idx = []
-        for j, k in enumerate(scdp.tolist()):
-            if k not in lookup:
-                raise VelocityError(
-                    f"{vname} does not match {sname}: CDP {k} (trace {j}) has no velocity trace; the "
-                    f"velocity has CDPs {vcdp.min()}-{vcdp.max()}; give the velocity section of this line"
-                )
-            idx.append(lookup[k])
-        return np.asarray(idx, dtype=np.int64), "cdp"
-    n_vel = vs.sizes["trace"]
-    if n_vel != n_sec:
-        raise VelocityError(
-            f"{vname} does not match {sname}: {n_vel} velocity traces for {n_sec} seismic traces and no "
-            "CDP or inline/crossline numbers to match them by; give a velocity section of the same line"
-        )
-    return np.arange(n_sec, dtype=np.int64), "trace"
+        logger.debug("%s: read %d velocity %s(s) for %s", fname, len(need), direction, sname)
+        return cls.from_section(vsec, section, kind=kind, lateral=lateral)

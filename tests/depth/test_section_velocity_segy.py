@@ -85,6 +85,16 @@ def test_velocity_file_option_reads_segy(tmp_path):
     assert_allclose(m.depth_m(500.0, trace=[0, 1]), [500.0, 750.0], rtol=1e-6)
 
 
+def test_velocity_file_option_passes_lateral_interpolation(tmp_path):
+    p = tmp_path / "vel2d.sgy"
+    _write_2d(p, velocities=[2000, 3000], cdps=[10, 20])
+    m = velocity_from_options(velocity_file=p, section=_seis(cdp=[10, 15]), velocity_lateral="linear")
+    # 2500 m/s halfway between CDPs 10 and 20 (linear interpolation); z = v t / 2 at 1 s
+    assert_allclose(m.depth_m(1000.0, trace=[0, 1]), [1000.0, 1250.0], rtol=1e-6)
+    with pytest.raises(VelocityError, match="applies to a velocity SEG-Y only"):
+        velocity_from_options(velocity=2500, velocity_lateral="linear")
+
+
 def test_2d_velocity_segy_missing_cdp_is_named(tmp_path):
     p = tmp_path / "vel2d.sgy"
     _write_2d(p, velocities=[2000, 3000], cdps=[7, 8])
@@ -121,3 +131,42 @@ def test_3d_velocity_volume_needs_inline_crossline_on_the_section(tmp_path):
     _write_3d(p, inlines=[1, 2], crosslines=[10, 11])
     with pytest.raises(VelocityError, match="vel3d.sgy is a 3D velocity volume but line_f.sgy has no inline/crossline"):
         SectionVelocity.from_segy(p, section=_seis(cdp=[1, 2]))
+
+
+def test_coarse_3d_velocity_grid_is_interpolated_bilinearly_when_asked(tmp_path):
+    # velocity every 2nd inline and 3rd crossline; v = 2000 + 100 il + 10 xl is linear in
+    # (il, xl), so bilinear interpolation must reproduce it exactly at the seismic bins (by hand)
+    p = tmp_path / "vel3d_coarse.sgy"
+    _write_3d(p, inlines=[1, 3, 5], crosslines=[10, 13, 16])
+    cases = {
+        "inline between velocity inlines": ([2, 2, 2], [10, 11, 15]),
+        "crossline between velocity crosslines": ([1, 3, 4], [14, 14, 14]),
+        "diagonal": ([1, 2, 3, 4], [10, 12, 13, 16]),
+    }
+    for name, (il, xl) in cases.items():
+        m = SectionVelocity.from_segy(p, section=_seis(inline=il, crossline=xl), lateral="linear")
+        assert m.matched_by == "inline/crossline, interpolated", name
+        expected = _vel_3d(np.array(il), np.array(xl)) / 2.0  # z = v t / 2 at t = 1 s
+        assert_allclose(m.depth_m(1000.0, trace=np.arange(len(il))), expected, rtol=1e-6, err_msg=name)
+
+
+def test_coarse_3d_velocity_grid_without_lateral_interpolation_is_refused(tmp_path):
+    p = tmp_path / "vel3d_coarse.sgy"
+    _write_3d(p, inlines=[1, 3], crosslines=[10, 13])
+    with pytest.raises(VelocityError, match="trace 0 \\(inline 3, crossline 11\\) has no velocity trace.*lateral='linear'"):
+        SectionVelocity.from_segy(p, section=_seis(inline=[3, 3], crossline=[11, 13]))
+    # interpolation never extrapolates sideways
+    with pytest.raises(VelocityError, match="trace 1 \\(inline 3, crossline 14\\) has no velocity trace"):
+        SectionVelocity.from_segy(p, section=_seis(inline=[3, 3], crossline=[13, 14]), lateral="linear")
+
+
+def test_sparse_2d_velocity_cdps_are_interpolated_linearly_when_asked(tmp_path):
+    # velocity analyses every 10 CDPs; linear in CDP between them (common practice, no source)
+    p = tmp_path / "vel2d_sparse.sgy"
+    _write_2d(p, velocities=[2000, 3000, 2500], cdps=[100, 110, 120])
+    m = SectionVelocity.from_segy(p, section=_seis(cdp=[100, 104, 110, 115, 120]), lateral="linear")
+    assert m.matched_by == "cdp, interpolated"
+    # by hand: 2400 m/s at CDP 104, 2750 m/s at CDP 115; z = v t / 2 at t = 1 s
+    assert_allclose(m.depth_m(1000.0, trace=np.arange(5)), [1000.0, 1200.0, 1500.0, 1375.0, 1250.0], rtol=1e-6)
+    with pytest.raises(VelocityError, match="CDP 121 \\(trace 1\\) has no velocity trace; the velocity has CDPs 100-120"):
+        SectionVelocity.from_segy(p, section=_seis(cdp=[120, 121]), lateral="linear")
