@@ -37,8 +37,8 @@ def check_velocities(values, *, what: str, source: str = "") -> np.ndarray:
     if bad.any():
         idx = _first(bad)
         raise VelocityError(
-            f"{prefix}{what}{_where(idx, v.ndim)} is {v[idx]:g} m/s; velocities must be "
-            "positive (check for muted or padded zones in a velocity file)"
+            f"{prefix}{what}{_where(idx, v.ndim)} is {v[idx]:g} m/s; velocities must be positive"
+            + (" (check for muted or padded zones in the velocity file)" if v.ndim else "; give it in m/s")
         )
     bad = v < lo
     if bad.any():
