@@ -1,0 +1,321 @@
+"""Margins on tracked surfaces: direction, shelf break and toe from curvature.
+
+Each tracked surface is converted to depth (``clinometry.depth``) and
+analysed as a profile ``depth(distance)``:
+
+1. **Legs.**  The profile, median-filtered (to remove single-trace
+   outliers) and smoothed with a Gaussian of ``4 * smoothing_m``, is cut
+   at its significant depth extrema (:func:`scipy.signal.find_peaks` with a
+   prominence of half the minimum relief).  A leg between a shallow and a
+   deep extremum whose relief reaches ``min_relief_m`` is a margin
+   candidate; its basinward direction is the way it deepens (``"+"``
+   towards increasing trace index).  Two legs falling away on both sides
+   of a high are the two margins of an isolated platform.
+2. **Steepest point, break and toe.**  On the profile smoothed over
+   ``smoothing_m`` (default: one dominant wavelength, so the picks do not
+   depend on trace count) the steepest point is the maximum basinward
+   gradient; the shelf break is the maximum of convex-up curvature
+   ``kappa = d'' / (1 + d'^2)^(3/2)`` between the landward end of the leg
+   and the steepest point, the toe the maximum of concave-up curvature
+   between the steepest point and the basinward end.  This is the
+   geometric definition of break and toe used for clinoform rollover
+   points (e.g. Pirmez, Pratson & Steckler 1998; Adams & Schlager 2000).
+3. **Acceptance.**  A candidate needs a landward top flatter than half its
+   steepest slope (otherwise it is regional dip, not a margin), a foreset
+   spanning several traces (a one-trace step is a jump between two
+   reflectors), and reflections along the foreset.  Its confidence
+   combines relief, slope contrast and reflection strength.
+
+Candidates from different surfaces that overlap laterally and face the
+same way belong to one margin: the shallowest surface over the margin is
+the outer margin profile (youngest clinoform), the others are the older
+clinoforms beneath, ordered oldest (deepest) to youngest.
+
+References
+----------
+.. [1] Adams, E. W. & Schlager, W. (2000). Basic types of submarine slope
+   curvature. Journal of Sedimentary Research 70(4), 814-828. (from memory)
+.. [2] Pirmez, C., Pratson, L. F. & Steckler, M. S. (1998). Clinoform
+   development by advection-diffusion of suspended sediment. Journal of
+   Geophysical Research 103(B10), 24141-24157. (from memory)
+.. [3] do Carmo, M. P. (1976). Differential Geometry of Curves and
+   Surfaces. Prentice-Hall (curvature of a plane curve). (from memory)
+"""
+
+from __future__ import annotations
+
+import logging
+from dataclasses import dataclass
+
+import numpy as np
+from scipy import ndimage, signal
+
+__all__ = ["MarginCandidate", "profile_candidates", "to_depth", "velocity_at"]
+
+logger = logging.getLogger(__name__)
+
+#: fallback velocity until a model is given (m/s); the run records it
+_FALLBACK_VELOCITY_M_S = 2500.0
+#: a top counts as flat when its gradient is below this fraction of the
+#: steepest foreset gradient (common practice, no source)
+TOP_FLATNESS_FRACTION = 0.5
+#: fewest traces between break and toe of an accepted foreset
+#: (common practice, no source)
+MIN_FORESET_TRACES = 3
+#: mean pick quality (reflection strength above background) along an
+#: accepted foreset, and the fraction of its traces with a real pick
+#: (common practice, no source)
+MIN_FORESET_QUALITY = 0.2
+#: largest share of the relief allowed in one trace-to-trace step of the
+#: picked surface (common practice, no source)
+MAX_STEP_FRACTION = 0.35
+#: the curvature smoothing is at least the slope width divided by this
+#: (common practice, no source)
+SLOPE_WIDTH_SMOOTHING_DIVISOR = 8.0
+MIN_FORESET_PICKED = 0.6
+
+
+def _default_velocity():
+    try:
+        from ..depth import DEFAULT_VELOCITY_M_S
+    except ImportError:  # the depth module is being written in parallel
+        return _FALLBACK_VELOCITY_M_S
+    return float(DEFAULT_VELOCITY_M_S)
+
+
+def to_depth(section, trace, z, velocity):
+    """Depth (m) of points given as trace index and z in section units.
+
+    Uses :func:`clinometry.depth.horizon_to_depth`; identity for depth
+    sections.  ``velocity`` may be a velocity model, a number (m/s,
+    constant) or None (the package default constant velocity).
+    """
+    z = np.asarray(z, dtype=float)
+    if section.attrs.get("domain") == "depth":
+        return z.copy()
+    if velocity is None:
+        velocity = _default_velocity()
+    if isinstance(velocity, (int, float)):
+        try:
+            from ..depth import ConstantVelocity
+        except ImportError:
+            return z * 1e-3 * float(velocity) / 2.0
+        velocity = ConstantVelocity(float(velocity))
+    from ..depth import horizon_to_depth
+
+    return np.asarray(horizon_to_depth(section, np.asarray(trace), z, velocity), dtype=float)
+
+
+def velocity_at(section, velocity, z):
+    """Interval velocity (m/s) at z (section units); a number for depth sections too."""
+    if velocity is None:
+        return _default_velocity()
+    if isinstance(velocity, (int, float)):
+        return float(velocity)
+    z = np.atleast_1d(np.asarray(z, dtype=float))
+    if section.attrs.get("domain") == "depth":
+        twt = velocity.twt_ms(z)
+    else:
+        twt = z
+    return np.asarray(velocity.interval_velocity(twt), dtype=float)
+
+
+@dataclass(frozen=True)
+class MarginCandidate:
+    """A margin found on one surface (indices are trace indices)."""
+
+    path_rank: int
+    direction: str
+    leg: tuple
+    steepest: int
+    shelf_break: int | None
+    toe: int | None
+    break_reason: str
+    toe_reason: str
+    relief_m: float
+    slope_max_deg: float
+    top_gradient_deg: float
+    foreset_quality: float
+    confidence: float
+    mean_depth_m: float
+    reasons: tuple = ()
+
+
+def _fill_low_quality(values, quality, q_min):
+    good = quality >= q_min
+    if good.sum() < 2:
+        return values.copy()
+    idx = np.arange(values.size)
+    return np.interp(idx, idx[good], values[good])
+
+
+def _legs(d_det, prominence):
+    """Indices of alternating significant extrema including both ends."""
+    n = d_det.size
+    hi, _ = signal.find_peaks(d_det, prominence=prominence)
+    lo, _ = signal.find_peaks(-d_det, prominence=prominence)
+    ext = sorted([(0, 0)] + [(int(i), 1) for i in hi] + [(int(i), -1) for i in lo] + [(n - 1, 0)])
+    return [e[0] for e in ext]
+
+
+def profile_candidates(
+    distance_m,
+    depth_m,
+    quality,
+    *,
+    path_rank: int,
+    smoothing_m: float,
+    min_relief_m: float,
+    min_quality: float = 0.1,
+):
+    """Margin candidates on one depth profile.
+
+    Parameters
+    ----------
+    distance_m : array_like, shape (n_trace,), m
+        Along-line distance of each trace.
+    depth_m : array_like, shape (n_trace,), m
+        Depth of the surface, positive down.
+    quality : array_like, shape (n_trace,)
+        0..1 pick quality; points below ``min_quality`` are interpolated.
+    path_rank : int
+    smoothing_m : float, m
+        Gaussian smoothing length (sigma) for break and toe.
+    min_relief_m : float, m
+        Smallest relief of a margin.
+    min_quality : float
+
+    Returns
+    -------
+    list of MarginCandidate
+        Candidates that passed; rejected ones are logged at DEBUG.
+
+    Examples
+    --------
+    >>> x = np.arange(200) * 25.0
+    >>> d = 500 + np.clip((x - 2000) * np.tan(np.radians(20)), 0, 300)
+    >>> c = profile_candidates(x, d, np.ones(200), path_rank=0, smoothing_m=50, min_relief_m=50)
+    >>> [(m.direction, m.shelf_break, m.toe) for m in c]
+    [('+', 80, 113)]
+    """
+    x = np.asarray(distance_m, dtype=float)
+    q = np.asarray(quality, dtype=float)
+    d = _fill_low_quality(np.asarray(depth_m, dtype=float), q, min_quality)
+    n = d.size
+    if n < 5:
+        return []
+    dx = float(np.median(np.abs(np.diff(x)))) or 1.0
+    sig = max(smoothing_m / dx, 0.5)
+    med = ndimage.median_filter(d, size=int(max(3, 2 * round(sig / 2) + 1)), mode="nearest")
+    d_fine = ndimage.gaussian_filter1d(med, sig, mode="nearest")
+    d_det = ndimage.gaussian_filter1d(med, 4 * sig, mode="nearest")
+    ext = _legs(d_det, 0.5 * min_relief_m)
+    uniform = not np.all(np.diff(x) != 0)
+
+    def derivs(prof):
+        gr = np.gradient(prof, dx) if uniform else np.gradient(prof, x)
+        cu = np.gradient(gr, dx) if uniform else np.gradient(gr, x)
+        return gr, cu / (1.0 + gr**2) ** 1.5
+
+    g_det, _ = derivs(d_det)
+    pad = int(np.ceil(4 * sig))
+    out = []
+    for a, b in zip(ext[:-1], ext[1:]):
+        if b - a < 2:
+            continue
+        rel = d_det[b] - d_det[a]
+        if abs(rel) < min_relief_m:
+            continue
+        direction = "+" if rel > 0 else "-"
+        sgn = 1.0 if direction == "+" else -1.0
+        # a gentle, wide slope (ramp) needs a longer smoothing for its
+        # curvature than the wavelength: at least 1/8 of the slope width
+        width = abs(rel) / max(float(np.max(sgn * g_det[a : b + 1])), 1e-9)
+        sig_leg = max(sig, width / (SLOPE_WIDTH_SMOOTHING_DIVISOR * dx))
+        d_leg = d_fine if sig_leg <= sig else ndimage.gaussian_filter1d(med, sig_leg, mode="nearest")
+        g, kappa = derivs(d_leg)
+        # basinward gradient in the oriented frame
+        gb = sgn * g
+        lo, hi = max(0, a - pad), min(n - 1, b + pad)
+        seg = np.arange(lo, hi + 1)
+        p = int(seg[np.argmax(gb[seg])])
+        slope_max = float(np.degrees(np.arctan(gb[p])))
+        land = np.arange(lo, p + 1) if direction == "+" else np.arange(p, hi + 1)
+        basin = np.arange(p, hi + 1) if direction == "+" else np.arange(lo, p + 1)
+        reasons = []
+        brk = int(land[np.argmax(kappa[land])]) if land.size else None
+        toe = int(basin[np.argmin(kappa[basin])]) if basin.size else None
+        break_reason = toe_reason = ""
+        if brk is None or kappa[brk] <= 0 or brk == p:
+            break_reason = "no convex-up bend landward of the steepest point"
+            brk = None
+        if toe is None or kappa[toe] >= 0 or toe == p:
+            toe_reason = "no concave-up bend basinward of the steepest point (toe beyond the line or no basin floor)"
+            toe = None
+        # landward top: from the landward end of the leg to the break (or steepest point)
+        edge = brk if brk is not None else p
+        top = np.arange(lo, edge + 1) if direction == "+" else np.arange(edge, hi + 1)
+        top = top[np.abs(top - edge) >= sig]
+        top_grad = float(np.median(gb[top])) if top.size >= 3 else float("nan")
+        ref_a = brk if brk is not None else (a if direction == "+" else b)
+        ref_b = toe if toe is not None else (b if direction == "+" else a)
+        relief = float(abs(d_leg[ref_b] - d_leg[ref_a]))
+        fs = np.arange(min(ref_a, ref_b), max(ref_a, ref_b) + 1)
+        fq = float(np.mean(q[fs])) if fs.size else 0.0
+        picked = float(np.mean(q[fs] >= min_quality)) if fs.size else 0.0
+        if fq < MIN_FORESET_QUALITY or picked < MIN_FORESET_PICKED:
+            reasons.append(
+                f"weak or missing reflections along the foreset (mean quality {fq:.2f}, "
+                f"{100 * picked:.0f}% of traces picked)"
+            )
+        if not np.isfinite(top_grad):
+            reasons.append("no landward top on the line")
+            flat_ok = False
+        else:
+            flat_ok = top_grad <= TOP_FLATNESS_FRACTION * gb[p]
+            if not flat_ok:
+                reasons.append(
+                    f"landward gradient {np.degrees(np.arctan(top_grad)):.2f} deg is not flatter than half "
+                    f"the steepest slope {slope_max:.2f} deg (regional dip, not a margin)"
+                )
+        if fs.size >= 2 and relief > 0:
+            step = float(np.max(np.abs(np.diff(d[fs]))))
+            if step > MAX_STEP_FRACTION * relief:
+                reasons.append(
+                    f"{100 * step / relief:.0f}% of the relief is one step between neighbouring traces: "
+                    "a jump between reflectors, not a slope"
+                )
+        if fs.size < MIN_FORESET_TRACES:
+            reasons.append(f"foreset spans {fs.size} trace(s): a jump between reflectors, not a slope")
+        if relief < min_relief_m:
+            reasons.append(f"relief {relief:.0f} m below the minimum {min_relief_m:.0f} m")
+        if reasons:
+            logger.debug("surface %d leg %d-%d rejected: %s", path_rank, a, b, "; ".join(reasons))
+            continue
+        contrast = gb[p] / max(abs(top_grad), np.tan(np.radians(0.05)))
+        conf = (
+            min(1.0, relief / (3 * min_relief_m)) ** 0.5
+            * min(1.0, np.log10(max(contrast, 1.0)) / np.log10(10.0)) ** 0.5
+            * min(1.0, fq / 0.4) ** 0.5
+        )
+        if brk is None or toe is None:
+            conf *= 0.8
+        out.append(
+            MarginCandidate(
+                path_rank=path_rank,
+                direction=direction,
+                leg=(int(a), int(b)),
+                steepest=p,
+                shelf_break=brk,
+                toe=toe,
+                break_reason=break_reason,
+                toe_reason=toe_reason,
+                relief_m=relief,
+                slope_max_deg=slope_max,
+                top_gradient_deg=float(np.degrees(np.arctan(top_grad))),
+                foreset_quality=fq,
+                confidence=float(conf),
+                mean_depth_m=float(np.mean(d_leg[min(a, b) : max(a, b) + 1])),
+            )
+        )
+    return out

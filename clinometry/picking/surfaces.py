@@ -1,0 +1,408 @@
+"""The default picker: surfaces, margin profile, clinoforms, break and toe.
+
+Steps (each in its own module, explained there):
+
+1. :mod:`~clinometry.picking.condition`: dead traces masked and filled,
+   gain balanced along the line, envelope, dominant period.
+2. :mod:`~clinometry.picking.orientation`: structure-tensor coherence,
+   used as part of the pick quality.
+3. :mod:`~clinometry.picking.tracking`: the strongest reflector surfaces
+   as minimum-cost paths across the line (steep, aliased foresets
+   included), with terminations where a surface merges into another.
+4. :mod:`~clinometry.picking.margins`: each surface in depth, margin legs,
+   steepest point, break and toe from curvature; candidates from several
+   surfaces grouped into margins with their clinoforms.
+
+All lengths derive from the dominant wavelength of the data and the
+velocity, never from trace or sample counts, so the picker behaves the same
+at 6.25 m or 25 m trace spacing and at 15 or 40 Hz.
+"""
+
+from __future__ import annotations
+
+import logging
+
+import numpy as np
+
+from ..errors import PickingError
+from ..section import check_section, section_name
+from .condition import condition
+from .faces import slope_faces
+from .margins import profile_candidates, to_depth, velocity_at
+from .orientation import reflector_orientation
+from .picks import ClinoformPicks, Horizon, MarginPicks, PickPoint, Picks
+from .tracking import TrackedPath, track_paths
+
+__all__ = ["pick_default"]
+
+logger = logging.getLogger(__name__)
+
+#: candidates with lower confidence are not reported as margins
+#: (common practice, no source)
+DEFAULT_MIN_CONFIDENCE = 0.3
+#: a reflector piece shorter than this many dominant wavelengths is not kept
+#: as a horizon (common practice, no source)
+MIN_HORIZON_WAVELENGTHS = 1.0
+#: quality below which a path point is not part of an exported reflector
+MIN_POINT_QUALITY = 0.15
+
+
+def _max_jump_samples(section, velocity, max_dip_deg, dx_m):
+    dz = float(section.attrs["sample_interval"])
+    tan = np.tan(np.radians(max_dip_deg))
+    if section.attrs["domain"] == "depth":
+        return tan * dx_m / dz
+    z = section["z"].values
+    v = float(np.min(np.atleast_1d(velocity_at(section, velocity, z))))
+    return 2.0 * tan * dx_m / v * 1000.0 / dz
+
+
+def _wavelength_m(section, velocity, period_z):
+    """Dominant wavelength (m): v * T for TWT, 2 * period for depth sections."""
+    if section.attrs["domain"] == "depth":
+        return 2.0 * period_z
+    z = section["z"].values
+    v = float(np.median(np.atleast_1d(velocity_at(section, velocity, z))))
+    return v * period_z * 1e-3
+
+
+def _horizon_pieces(zs, q, min_len, start_id, z_axis):
+    """Split a path into continuous reflector pieces of good quality."""
+    good = q >= MIN_POINT_QUALITY
+    out = []
+    if not good.any():
+        return out
+    idx = np.flatnonzero(good)
+    breaks = np.flatnonzero(np.diff(idx) > 2)
+    for piece in np.split(idx, breaks + 1):
+        if piece.size >= min_len:
+            out.append((piece, np.interp(zs[piece], np.arange(z_axis.size), z_axis), q[piece]))
+    return out
+
+
+#: coherent dips steeper than this (true degrees) mark a slope face
+#: (common practice, no source)
+FACE_MIN_DIP_DEG = 3.0
+
+
+def _true_dip_deg(section, velocity, dip_samples, dx_m):
+    """True dip (degrees) from dip in samples per trace: tan = (v/2) dt/dx for TWT."""
+    dz = float(section.attrs["sample_interval"])
+    if section.attrs["domain"] == "depth":
+        return np.degrees(np.arctan(dip_samples * dz / dx_m)).astype(np.float32)
+    v = np.atleast_1d(velocity_at(section, velocity, section["z"].values)).astype(np.float32)
+    v = np.broadcast_to(v, (dip_samples.shape[1],))[None, :]
+    return np.degrees(np.arctan(0.5 * v * dip_samples * dz * 1e-3 / dx_m)).astype(np.float32)
+
+
+def _envelope_quality(env, dead):
+    scale = float(np.percentile(env, 99.5)) or 1.0
+    e = np.clip(env / scale, 0.0, 1.0)
+    bg = float(np.median(e[~dead])) if (~dead).any() else 0.0
+    q = np.clip((e - bg) / max(1.0 - bg, 1e-6), 0.0, 1.0)
+    q[dead] = 0.0
+    return q
+
+
+def _face_profile(face, paths, e_q, coh, period_samples, *, rank):
+    """Profile through a slope face, continued landward and basinward along
+    the tracked surfaces that meet its two ends (within half a period)."""
+    n = e_q.shape[0]
+    rows = np.arange(n)
+    z = np.full(n, np.nan)
+    q = np.zeros(n)
+    z[face.trace] = face.z_index
+    zi = np.clip(np.round(face.z_index).astype(int), 0, e_q.shape[1] - 1)
+    q[face.trace] = np.maximum(e_q[face.trace, zi], 0.5 * coh[face.trace, zi])
+    i0, i1 = int(face.trace[0]), int(face.trace[-1])
+    reach = max(3, int(round(2 * period_samples)))
+    for end, side, near in ((i0, rows < i0, slice(max(0, i0 - reach), i0)), (i1, rows > i1, slice(i1 + 1, i1 + 1 + reach))):
+        # the strongest surface within one period of the face end, judged
+        # just beyond the end (platform top landward, basin floor basinward)
+        close = [p for p in paths if abs(p.z_index[end] - z[end]) <= period_samples]
+        if not close or not side.any():
+            continue
+        best = max(close, key=lambda p: float(np.mean(p.quality[near])) if p.quality[near].size else 0.0)
+        z[side] = best.z_index[side]
+        q[side] = best.quality[side]
+    good = np.isfinite(z)
+    z = np.interp(rows, rows[good], z[good])
+    return TrackedPath(z_index=z, quality=q, polarity="unknown", rank=rank)
+
+
+def _cuts_layering(cand, z_index, dip, coh):
+    """Reason why a candidate's foreset cuts across coherent layering, or ''."""
+    ends = [v for v in (cand.shelf_break, cand.toe) if v is not None] + [cand.steepest]
+    fs = np.arange(min(ends), max(ends) + 1)
+    if fs.size < 3:
+        return ""
+    step = np.gradient(z_index)[fs]
+    zi = np.clip(np.round(z_index[fs]).astype(int), 0, dip.shape[1] - 1)
+    d = dip[fs, zi]
+    c = coh[fs, zi]
+    sure = c >= 0.6
+    if sure.sum() < 3:
+        return ""
+    miss = np.abs(step[sure] - d[sure])
+    if np.median(miss) > max(1.0, 0.5 * np.median(np.abs(step[sure]))):
+        return "the surface cuts across coherent reflectors of another dip (a jump between reflectors)"
+    return ""
+
+
+def _foreset_span(m):
+    ends = [v for v in (m.shelf_break, m.toe) if v is not None] or [m.steepest]
+    return min(ends + [m.steepest]), max(ends + [m.steepest])
+
+
+def _drop_opposed(groups, notes):
+    """One slope cannot face both ways: of two opposite-facing margins whose
+    foresets overlap, keep the more confident."""
+    best = [max(g, key=lambda m: m.confidence) for g in groups]
+    keep = [True] * len(groups)
+    for i in range(len(groups)):
+        for j in range(len(groups)):
+            if i == j or not keep[i] or not keep[j] or best[i].direction == best[j].direction:
+                continue
+            (a0, a1), (b0, b1) = _foreset_span(best[i]), _foreset_span(best[j])
+            if min(a1, b1) >= max(a0, b0) and best[i].confidence >= best[j].confidence:
+                keep[j] = False
+                notes.append(
+                    f"margin facing {best[j].direction} at traces {b0}-{b1} dropped: its foreset overlaps "
+                    f"the more confident margin facing {best[i].direction} at traces {a0}-{a1}"
+                )
+    return [g for g, k in zip(groups, keep) if k]
+
+
+def pick_default(
+    section,
+    *,
+    velocity=None,
+    smoothing_m: float | None = None,
+    max_dip_deg: float = 70.0,
+    min_relief_m: float | None = None,
+    n_surfaces: int = 16,
+    min_confidence: float = DEFAULT_MIN_CONFIDENCE,
+):
+    """Surfaces, margins, clinoforms, shelf breaks and toes picked from the image with no seeds.
+
+    Parameters
+    ----------
+    section : xarray.DataArray, dims ("trace", "z")
+        A section (TWT or depth), see :mod:`clinometry.section`.
+    velocity : velocity model, float (m/s) or None
+        For depth conversion of the surfaces (``clinometry.depth``); None
+        means the package default constant velocity for TWT sections (noted
+        in ``Picks.notes``) and nothing for depth sections.
+    smoothing_m : float, m, optional
+        Gaussian smoothing length (sigma) along the line for break and toe
+        detection.  Default: one dominant wavelength of the data.
+    max_dip_deg : float, degrees
+        Steepest true dip a surface may follow.
+    min_relief_m : float, m, optional
+        Smallest relief of a margin.  Default: half a dominant wavelength
+        (twice the vertical resolution of a quarter wavelength, Widess 1973,
+        from memory), at least 10 m.
+    n_surfaces : int
+        How many reflector surfaces to trace.
+    min_confidence : float
+        Margins with lower confidence are left out (listed in notes).
+
+    Returns
+    -------
+    Picks
+
+    Raises
+    ------
+    PickingError
+        When the section has no live trace or too few samples per period.
+
+    Notes
+    -----
+    See the module docstrings of :mod:`~clinometry.picking.condition`,
+    :mod:`~clinometry.picking.orientation`,
+    :mod:`~clinometry.picking.tracking` and
+    :mod:`~clinometry.picking.margins` for the methods and references.
+
+    References
+    ----------
+    .. [1] Widess, M. B. (1973). How thin is a thin bed? Geophysics 38(6),
+       1176-1180. (from memory)
+    """
+    check_section(section)
+    name = section_name(section)
+    data = section.transpose("trace", "z").values
+    z_axis = section["z"].values.astype(float)
+    dz = float(section.attrs["sample_interval"])
+    notes = []
+    cond = condition(data, dz, known_dead=section.attrs.get("dead_traces", []))
+    notes.extend(cond.notes)
+    if cond.dead.all():
+        raise PickingError(f"{name}: every trace is dead (zero, constant or non-finite); nothing to pick")
+    if not np.isfinite(cond.period_z) or cond.period_z < 2 * dz:
+        raise PickingError(
+            f"{name}: dominant period {cond.period_z:.3g} {section.attrs['units']} is not resolved by the "
+            f"sample interval {dz:g}; check the sample interval"
+        )
+    if velocity is None and section.attrs["domain"] == "twt":
+        notes.append(f"no velocity given: surfaces converted to depth with the default {velocity_at(section, None, z_axis):.0f} m/s")
+    period_samples = cond.period_z / dz
+    dist = section["distance"].values.astype(float)
+    dx_m = float(np.median(np.abs(np.diff(dist)))) or 1.0
+    wavelength = _wavelength_m(section, velocity, cond.period_z)
+    smoothing = float(smoothing_m) if smoothing_m is not None else wavelength
+    min_relief = float(min_relief_m) if min_relief_m is not None else max(10.0, 0.5 * wavelength)
+    notes.append(
+        f"dominant period {cond.period_z:.3g} {section.attrs['units']}, wavelength {wavelength:.0f} m, "
+        f"smoothing {smoothing:.0f} m, minimum relief {min_relief:.0f} m"
+    )
+    max_jump = _max_jump_samples(section, velocity, max_dip_deg, dx_m)
+    dip, coh = reflector_orientation(cond.amplitude, sigma_z_samples=max(1.0, period_samples / 4), sigma_trace=1.5)
+    paths = track_paths(
+        cond.envelope,
+        cond.amplitude,
+        period_samples=period_samples,
+        max_jump_samples=max_jump,
+        n_paths=n_surfaces,
+        dip=dip,
+        coherence=coh,
+        dead=cond.dead,
+    )
+    n = data.shape[0]
+    rows = np.arange(n)
+    dip_deg = _true_dip_deg(section, velocity, dip, dx_m)
+    e_q = _envelope_quality(cond.envelope, cond.dead)
+    faces = slope_faces(dip_deg, coh, cond.envelope, min_dip_deg=FACE_MIN_DIP_DEG, period_samples=period_samples)
+    for f in faces:
+        paths.append(_face_profile(f, paths, e_q, coh, period_samples, rank=len(paths)))
+    zs_list, depth_list, q_list = [], [], []
+    for p in paths:
+        zs = np.interp(p.z_index, np.arange(z_axis.size), z_axis)
+        zi = np.clip(np.round(p.z_index).astype(int), 0, z_axis.size - 1)
+        q = p.quality * (0.5 + 0.5 * coh[rows, zi])
+        zs_list.append(zs)
+        q_list.append(q)
+        depth_list.append(to_depth(section, rows, zs, velocity))
+
+    cands = []
+    for p, dep, q in zip(paths, depth_list, q_list):
+        for c in profile_candidates(dist, dep, q, path_rank=p.rank, smoothing_m=smoothing, min_relief_m=min_relief):
+            why = _cuts_layering(c, p.z_index, dip, coh)
+            if why:
+                logger.debug("surface %d candidate at %s rejected: %s", p.rank, c.leg, why)
+                continue
+            cands.append(c)
+
+    # group candidates that face the same way and overlap laterally
+    groups = []
+    for c in sorted(cands, key=lambda c: -c.confidence):
+        lo, hi = min(c.leg), max(c.leg)
+        for g in groups:
+            g0 = g[0]
+            if g0.direction == c.direction and min(hi, max(g0.leg)) - max(lo, min(g0.leg)) > 0 and all(
+                m.path_rank != c.path_rank for m in g
+            ):
+                g.append(c)
+                break
+        else:
+            groups.append([c])
+
+    groups = _drop_opposed(groups, notes)
+    horizons = []
+    margins = []
+    used_ranks = {}
+    next_id = 0
+    for g in sorted(groups, key=lambda g: min(g[0].leg)):
+        span = (min(min(m.leg) for m in g), max(max(m.leg) for m in g))
+        steep = [m.steepest for m in g]
+        core = slice(min(steep), max(steep) + 1)
+        best_q = max(m.foreset_quality for m in g)
+        strong = [m for m in g if m.foreset_quality >= 0.6 * best_q]
+        # the outer surface (youngest clinoform) is the shallowest strong one
+        profile = min(strong, key=lambda m: float(np.mean(depth_list[m.path_rank][core])))
+        conf = profile.confidence
+        if conf < min_confidence:
+            notes.append(
+                f"margin facing {profile.direction} near traces {span[0]}-{span[1]} left out: "
+                f"confidence {conf:.2f} below {min_confidence:.2f}"
+            )
+            continue
+        # clinoforms: every surface of the group, oldest (deepest) first
+        ordered = sorted(g, key=lambda m: -float(np.mean(depth_list[m.path_rank][core])))
+        clinos = []
+        for m in ordered:
+            if m.path_rank not in used_ranks:
+                used_ranks[m.path_rank] = next_id
+                next_id += 1
+            hid = used_ranks[m.path_rank]
+            zs = zs_list[m.path_rank]
+            q = q_list[m.path_rank]
+            bp = PickPoint(int(m.shelf_break), float(zs[m.shelf_break]), float(q[m.shelf_break])) if m.shelf_break is not None else None
+            tp = PickPoint(int(m.toe), float(zs[m.toe]), float(q[m.toe])) if m.toe is not None else None
+            clinos.append(ClinoformPicks(hid, bp, tp, m.break_reason, m.toe_reason))
+        prof_id = used_ranks[profile.path_rank]
+        prof_clino = next(c for c in clinos if c.horizon_id == prof_id)
+        top_id = None
+        if profile.shelf_break is not None:
+            zs = zs_list[profile.path_rank]
+            q = q_list[profile.path_rank]
+            a, b = profile.leg
+            if profile.direction == "+":
+                top_tr = np.arange(max(0, min(a, profile.shelf_break)), profile.shelf_break + 1)
+            else:
+                top_tr = np.arange(profile.shelf_break, min(n - 1, max(b, profile.shelf_break)) + 1)
+            if top_tr.size >= 2:
+                top_id = 10_000 + next_id
+                next_id += 1
+                horizons.append(Horizon(top_id, "platform_top", top_tr, zs[top_tr], q[top_tr], paths[profile.path_rank].polarity))
+        margins.append(
+            MarginPicks(
+                direction=profile.direction,
+                profile_id=prof_id,
+                platform_top_id=top_id,
+                shelf_break=prof_clino.shelf_break,
+                toe=prof_clino.toe,
+                clinoforms=tuple(clinos),
+                confidence=round(float(conf), 3),
+                break_reason=prof_clino.break_reason,
+                toe_reason=prof_clino.toe_reason,
+                notes=(
+                    f"relief {profile.relief_m:.0f} m, steepest slope {profile.slope_max_deg:.1f} deg, "
+                    f"landward gradient {profile.top_gradient_deg:.2f} deg, foreset reflection strength "
+                    f"{profile.foreset_quality:.2f}",
+                ),
+            )
+        )
+
+    # horizons of the surfaces used by margins (whole path), then reflector pieces
+    profile_ids = {m.profile_id for m in margins}
+    for rank, hid in sorted(used_ranks.items(), key=lambda kv: kv[1]):
+        if not any(c.horizon_id == hid for mg in margins for c in mg.clinoforms):
+            continue
+        role = "margin_profile" if hid in profile_ids else "clinoform"
+        horizons.append(Horizon(hid, role, rows, zs_list[rank], q_list[rank], paths[rank].polarity))
+    min_len = max(3, int(np.ceil(MIN_HORIZON_WAVELENGTHS * wavelength / dx_m)))
+    for p in paths:
+        if p.rank in used_ranks:
+            continue
+        for tr, zz, qq in _horizon_pieces(p.z_index, q_list[p.rank], min_len, next_id, z_axis):
+            horizons.append(Horizon(20_000 + next_id, "reflector", tr, zz, qq, p.polarity))
+            next_id += 1
+    if not margins:
+        notes.append(
+            "no margin: no traced surface deepens by at least "
+            f"{min_relief:.0f} m from a flatter top over a slope with reflections"
+            if not cands
+            else "no margin above the confidence threshold"
+        )
+    horizons.sort(key=lambda h: h.id)
+    params = {
+        "smoothing_m": smoothing,
+        "max_dip_deg": float(max_dip_deg),
+        "min_relief_m": min_relief,
+        "n_surfaces": int(n_surfaces),
+        "min_confidence": float(min_confidence),
+        "dominant_period": float(cond.period_z),
+        "wavelength_m": float(wavelength),
+    }
+    logger.info("%s: %d surfaces, %d margin(s)", name, len(paths), len(margins))
+    return Picks(horizons=tuple(horizons), margins=tuple(margins), picker="default", parameters=params, notes=tuple(notes))
