@@ -11,8 +11,14 @@ clinoforms the picker found, oldest to youngest:
   the oldest (negative: the break stepped back landward, ``backstepping``);
 * aggradation_m = depth of the oldest break minus depth of the youngest
   (positive when the break rose: depth is positive down);
-* angle_deg = atan2(aggradation_m, |progradation_m|): the elevation angle of
-  the net path above the horizontal, positive when rising;
+* angle_deg: the elevation angle of the path above the horizontal, positive
+  when rising: ``atan`` of the least-squares slope of break elevation
+  (= -depth) against distance in the sense of net movement (basinward, or
+  landward when the break backstepped).  With two breaks this is
+  ``atan2(aggradation_m, |progradation_m|)``; with more, the fit keeps one
+  odd break from deciding the class;
+* net_angle_deg: ``atan2(aggradation_m, |progradation_m|)`` from the oldest
+  and youngest breaks alone;
 * ratio = aggradation_m / progradation_m (A/P);
 * step_angles_deg: the same angle for each successive pair of breaks.
 
@@ -60,7 +66,8 @@ def trajectory_from_breaks(basinward_m, depth_m, *, flat_deg: float = TRAJECTORY
     Returns
     -------
     dict
-        ``angle_deg``, ``class``, ``progradation_m``, ``aggradation_m``,
+        ``angle_deg`` (least-squares), ``net_angle_deg``, ``class``,
+        ``progradation_m``, ``aggradation_m``,
         ``ratio`` (None when progradation is 0), ``step_angles_deg``,
         ``n_breaks``, ``backstepping``, ``flat_band_deg``.
 
@@ -69,6 +76,11 @@ def trajectory_from_breaks(basinward_m, depth_m, *, flat_deg: float = TRAJECTORY
     .. [1] Helland-Hansen, W. & Martinsen, O. J. (1996). Shoreline trajectory
        and sequences: description of variable depositional-dip scenarios.
        Journal of Sedimentary Research 66: 670-688.
+
+    Notes
+    -----
+    The least-squares line through the breaks is the usual way to give one
+    angle to a set of trajectory points (common practice, no source).
 
     Examples
     --------
@@ -82,11 +94,17 @@ def trajectory_from_breaks(basinward_m, depth_m, *, flat_deg: float = TRAJECTORY
         raise ValueError(f"need two or more breaks of matching shape, got {b.shape} and {d.shape}")
     prog = float(b[-1] - b[0])
     aggr = float(d[0] - d[-1])
-    angle = _angle(aggr, prog)
+    net = _angle(aggr, prog)
+    sense = -1.0 if prog < 0 else 1.0
+    if b.size > 2 and np.ptp(b) > 0:
+        angle = float(np.degrees(np.arctan(np.polyfit(sense * b, -d, 1)[0])))
+    else:
+        angle = net
     cls = "flat" if abs(angle) <= flat_deg else ("ascending" if angle > 0 else "descending")
     steps = [_angle(d[i] - d[i + 1], b[i + 1] - b[i]) for i in range(b.size - 1)]
     return {
         "angle_deg": angle,
+        "net_angle_deg": net,
         "class": cls,
         "progradation_m": prog,
         "aggradation_m": aggr,

@@ -68,3 +68,18 @@ def test_trajectory_missing_with_fewer_than_two_breaks(build_margin, planar):
     out = trajectory_metrics(margin_geometry(picks, picks.margins[0], section))
     assert out["trajectory"] is None
     assert "1 clinoform break(s) picked out of 2" in out["missing"]["trajectory"]
+
+
+def test_least_squares_angle_through_several_breaks():
+    # by hand: b = 0, 1000, 2000, 3000 m; elevation -d = -300, -290, -295, -280 m;
+    # least-squares slope = sum(db * de) / sum(db^2) = 27500 / 5e6 = 0.0055 -> 0.315124 deg
+    # (normal equations of a straight-line fit, common practice, no source)
+    t = trajectory_from_breaks([0.0, 1000.0, 2000.0, 3000.0], [300.0, 290.0, 295.0, 280.0])
+    assert_allclose(t["angle_deg"], 0.3151236, rtol=1e-6)
+    # net path: 20 m over 3000 m -> atan(20 / 3000) = 0.381966 deg
+    assert_allclose(t["net_angle_deg"], 0.3819660, rtol=1e-6)
+    assert t["class"] == "ascending"
+    # backstepping breaks are fitted in their own (landward) sense: still rising
+    back = trajectory_from_breaks([3000.0, 2000.0, 1000.0, 0.0], [300.0, 290.0, 295.0, 280.0])
+    assert_allclose(back["angle_deg"], 0.3151236, rtol=1e-6)
+    assert back["backstepping"] is True
