@@ -81,9 +81,18 @@ def _cite(key):
     return DEFAULT_THRESHOLDS[key].cite
 
 
+#: words for the bounds in reasons
+_BOUND_NAMES = {
+    "ramp_max_slope_deg": "ramp upper bound",
+    "steep_min_slope_deg": "steep-margin lower bound",
+}
+
+
 def _cmp(label, value, unit, key, bound, fmt=".1f"):
     rel = "above" if value > bound else "below" if value < bound else "exactly at"
-    return f"{label} {value:{fmt}}{unit} is {rel} the {key} bound {bound:{fmt}}{unit} ({_cite(key)})"
+    far = f" (factor {max(value, bound) / min(value, bound):.2g})" if value != bound else ""
+    return (f"{label} {value:{fmt}}{unit} is {rel} the {_BOUND_NAMES[key]} {bound:{fmt}}{unit}{far} "
+            f"[{key}; {_cite(key)}]")
 
 
 def _fabric(slope, t):

@@ -48,8 +48,10 @@ def test_exactly_at_a_bound_confidence_is_half(slope):
 def test_reasons_quote_values_bounds_and_sources():
     c = classify({"slope_max_deg": 28.4, **RIMMED_GOOD})
     text = "\n".join(c.reasons)
-    assert "max foreset slope 28.4° is above the ramp_max_slope_deg bound 1.0° (Read 1985" in text
-    assert "max foreset slope 28.4° is below the steep_min_slope_deg bound 30.0° (Schlager & Ginsburg 1981" in text
+    assert ("max foreset slope 28.4° is above the ramp upper bound 1.0° (factor 28) "
+            "[ramp_max_slope_deg; Read 1985; Burchette & Wright 1992, from memory]") in text
+    assert ("max foreset slope 28.4° is below the steep-margin lower bound 30.0° (factor 1.1) "
+            "[steep_min_slope_deg; Schlager & Ginsburg 1981; Kenter 1990, from memory]") in text
     assert "agrees: break curvature 0.400/km is above the sharp-break bound 0.100/km" in text
     assert "agrees: relief 250 m is above the resolution bound 20 m (Widess 1973" in text
     assert c.reasons[0].startswith("rimmed_shelf: slope score")
