@@ -245,11 +245,16 @@ def sniff_segy(path) -> SegyLayout:
         ns_source = "bytes 3269-3272 (rev 2 extended sample count)"
 
     n_ext = binary["extended_text_headers"]
-    if n_ext < 0:
+    if n_ext == -1:
         raise SegyReadError(
-            f"{name}: binary header bytes 3505-3506 say {n_ext} extended textual headers "
+            f"{name}: binary header bytes 3505-3506 say -1 extended textual headers "
             "(a variable count ended by an end-stanza, SEG-Y rev 2); this reader needs a fixed "
             "count; remove the extended headers or set the count in a copy"
+        )
+    if n_ext < 0:
+        raise SegyReadError(
+            f"{name}: binary header bytes 3505-3506 say {n_ext} extended textual headers, a negative "
+            "count; the binary header is damaged; set the count (usually 0) in a copy"
         )
     data_offset = FILE_HEADER_BYTES + n_ext * EXTENDED_TEXT_HEADER_BYTES
     if data_offset > size:
