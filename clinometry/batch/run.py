@@ -136,7 +136,9 @@ def collect_tables(tasks, out_dir, *, plot=True):
         (relative link).
     lines : list of dict
         Per task: ``stem, file, line, status, json, png, csv, n_margins``
-        (``status`` "ok" when its JSON could be read).
+        (``status`` "ok" when its files are complete and valid, see
+        :func:`clinometry.batch.tasks.is_complete`; only those lines give
+        margin rows).
     cautions : list of str
         The cautions recorded in the results (each once).
     """
@@ -146,11 +148,10 @@ def collect_tables(tasks, out_dir, *, plot=True):
         names = output_names(t.stem, plot=plot)
         entry = {"stem": t.stem, "file": os.path.basename(t.path), "line": t.label, "status": "failed",
                  "json": None, "png": None, "csv": None, "n_margins": 0, "x": None, "y": None}
-        try:
-            d = json.loads((out / names["json"]).read_text(encoding="utf-8"))
-        except (OSError, ValueError):
+        if not is_complete(t, out, plot=plot):
             lines.append(entry)
             continue
+        d = json.loads((out / names["json"]).read_text(encoding="utf-8"))
         rows = margin_rows(d, file=t.path, line=t.label, stem=t.stem)
         for r in rows:
             r["json"] = names["json"]

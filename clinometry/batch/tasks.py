@@ -327,6 +327,15 @@ def is_complete(task, out_dir, *, plot=True) -> bool:
     return True
 
 
+def _remove_outputs(task, out_dir):
+    """Remove a failed line's files, so no stale or partial result is taken for it."""
+    for name in output_names(task.stem, plot=True).values():
+        try:
+            os.unlink(os.path.join(out_dir, name))
+        except FileNotFoundError:
+            pass
+
+
 def run_task(task, options) -> dict:
     """Analyse one line and write its files; never raises for a bad line.
 
@@ -346,7 +355,8 @@ def run_task(task, options) -> dict:
     -----
     Every exception of a line is caught and recorded (fault tolerance of a
     batch, common practice, no source); ``KeyboardInterrupt`` and
-    ``SystemExit`` are not caught.
+    ``SystemExit`` are not caught.  The files of a failed line (also older
+    ones of the same name) are removed, so no table picks them up.
     """
     from ..pipeline import analyze_full
     from ..report.files import write_result_files
@@ -380,6 +390,7 @@ def run_task(task, options) -> dict:
                            velocity=model)
     except Exception as err:  # fault tolerance: one bad line must not stop the batch
         logger.info("%s %s: %s: %s", os.path.basename(task.path), task.label, type(err).__name__, err)
+        _remove_outputs(task, options.out_dir)
         rec["error_type"] = type(err).__name__
         rec["message"] = _message(err, task.path)
         return rec

@@ -208,6 +208,16 @@ def _margin_profile(margin, groups):
     return d, z, s
 
 
+def _velocity_text(vel):
+    """One line about the velocity model of a result."""
+    model = vel.get("model", "none")
+    params = ", ".join(f"{k} {v:g}" for k, v in vel.items()
+                       if k not in ("model", "default_fallback") and isinstance(v, (int, float))
+                       and not isinstance(v, bool))
+    text = f"{model} ({params})" if params else str(model)
+    return text + (" - package default, no velocity given" if vel.get("default_fallback") else "")
+
+
 def _fmt(v, unit="", digits=1):
     if v is None:
         return "n/a"
@@ -228,7 +238,7 @@ def _metric_line(margin, key, label, unit, digits=1):
     return text
 
 
-def _margin_text(margin, width=58):
+def _margin_text(margin, width=62):
     fam = margin.get("family") or "unclassified"
     sub = margin.get("subtype")
     conf = margin.get("confidence")
@@ -248,10 +258,10 @@ def _margin_text(margin, width=58):
     reasons = list(margin.get("reasons") or [])
     if reasons:
         lines.append("Reasons:")
-        for r in reasons[:4]:
+        for r in reasons[:3]:
             lines.extend(textwrap.wrap(str(r), width, initial_indent="  - ", subsequent_indent="    "))
-        if len(reasons) > 4:
-            lines.append(f"  ... {len(reasons) - 4} more in the JSON")
+        if len(reasons) > 3:
+            lines.append(f"  ... {len(reasons) - 3} more reason(s) in the JSON")
     missing = margin.get("missing") or {}
     if isinstance(missing, dict) and missing:
         lines.append("Not measured:")
@@ -308,9 +318,11 @@ def qc_figure(result, section, path, *, horizons=None, title=None):
 
     n_rows = 1 + max(1, len(margins))
     fig = plt.figure(figsize=(13.0, 4.8 + 2.9 * max(1, len(margins))))
-    gs = fig.add_gridspec(n_rows, 2, width_ratios=[2.3, 1.0], height_ratios=[1.7] + [1.0] * (n_rows - 1),
+    gs = fig.add_gridspec(n_rows, 2, width_ratios=[2.4, 1.0], height_ratios=[1.7] + [1.0] * (n_rows - 1),
                           hspace=0.42, wspace=0.06, left=0.07, right=0.97, top=0.92, bottom=0.06)
-    ax = fig.add_subplot(gs[0, :])
+    ax = fig.add_subplot(gs[0, 0])
+    lax = fig.add_subplot(gs[0, 1])  # legend and notes beside the section
+    lax.axis("off")
     ax.imshow(data.T, cmap="gray_r", vmin=-clip, vmax=clip, aspect="auto", interpolation="bilinear",
               extent=[dist_km[0], dist_km[-1], z[-1], z[0]])
     handles = []
@@ -322,23 +334,28 @@ def qc_figure(result, section, path, *, horizons=None, title=None):
             seen_roles.add(g["role"])
             handles.append(Line2D([], [], color=color, lw=max(lw, 1.2), label=label))
     for m in margins:
-        for key, style, lab in (("break", _BREAK_STYLE, "shelf break"), ("toe", _TOE_STYLE, "toe of slope")):
-            pts = [m.get(key)] + [c.get(key) for c in m.get("clinoforms") or []]
-            pts = [p for p in pts if isinstance(p, dict) and p.get("distance_m") is not None and p.get("z") is not None]
-            if pts:
-                ax.scatter([p["distance_m"] / 1000.0 for p in pts], [p["z"] for p in pts], **style)
-        for lab, style in (("shelf break", _BREAK_STYLE), ("toe of slope", _TOE_STYLE)):
-            if lab not in seen_roles:
+        for key, style in (("break", _BREAK_STYLE), ("toe", _TOE_STYLE)):
+            clino = [c.get(key) for c in m.get("clinoforms") or []]
+            for pts, size in (([m.get(key)], style["s"]), (clino, 30)):
+                pts = [p for p in pts if isinstance(p, dict) and p.get("distance_m") is not None
+                       and p.get("z") is not None]
+                if pts:
+                    ax.scatter([p["distance_m"] / 1000.0 for p in pts], [p["z"] for p in pts],
+                               **{**style, "s": size})
+        for lab, style, size in (("shelf break", _BREAK_STYLE, 9), ("toe of slope", _TOE_STYLE, 9),
+                                 ("clinoform break / toe", _BREAK_STYLE, 5)):
+            if lab not in seen_roles and (size == 9 or any(m.get("clinoforms") for m in margins)):
                 seen_roles.add(lab)
                 handles.append(Line2D([], [], linestyle="none", marker=style["marker"], color=style["color"],
-                                      markersize=8, label=lab))
+                                      markeredgecolor="white", markersize=size, label=lab))
     ax.set_xlim(dist_km[0], dist_km[-1])
     ax.set_ylim(z[-1], z[0])
     ax.set_xlabel("distance along line (km)", fontsize=_FONT_SIZE)
     ax.set_ylabel(f"{'two-way time' if domain == 'twt' else 'depth'} ({zunit})", fontsize=_FONT_SIZE)
     ax.tick_params(labelsize=_FONT_SIZE)
     if handles:
-        ax.legend(handles=handles, loc="lower left", fontsize=8, framealpha=0.85, ncol=min(4, len(handles)))
+        lax.legend(handles=handles, loc="upper left", fontsize=8.5, frameon=False, title="on the section",
+                   title_fontsize=9, alignment="left")
 
     # vertical exaggeration of the section panel
     fig.canvas.draw()
@@ -359,9 +376,14 @@ def qc_figure(result, section, path, *, horizons=None, title=None):
     if vel.get("default_fallback"):
         name += "   [default velocity used: depths approximate]"
     ax.set_title(f"{name}\n{ve_text}", fontsize=10, loc="left")
+    notes = [f"velocity: {_velocity_text(res.get('velocity') or {})}"]
+    notes += [f"fallback: {f}" for f in ((res.get("run") or {}).get("fallbacks") or [])[:2]]
+    notes.append("Automatic picks: check them against the section before use.")
+    lax.text(0.0, 0.0, "\n".join(textwrap.fill(n, 52, subsequent_indent="  ") for n in notes), va="bottom",
+             ha="left", fontsize=7.6, transform=lax.transAxes)
 
     if not margins:
-        tax = fig.add_subplot(gs[1, :])
+        tax = fig.add_subplot(gs[1, 0])
         tax.axis("off")
         why = "; ".join(str(n) for n in (res.get("notes") or [])) or "the picker found no platform margin on this line"
         tax.text(0.0, 0.9, "No margin on this line.\n" + "\n".join(textwrap.wrap(why, 110)),
@@ -376,7 +398,7 @@ def qc_figure(result, section, path, *, horizons=None, title=None):
             pax.set_ylabel("depth (m)", fontsize=_FONT_SIZE)
         else:
             d, dep, slope = prof
-            pax.plot(d / 1000.0, dep, color=OKABE_ITO["black"], lw=1.8, label="margin depth")
+            pax.plot(d / 1000.0, dep, color=ROLE_STYLES["margin_profile"][0], lw=2.0, label="margin depth")
             pax.invert_yaxis()
             pax.set_xlim(dist_km[0], dist_km[-1])  # same distance axis as the section above
             pax.set_xlabel("distance along line (km)", fontsize=_FONT_SIZE)
@@ -386,16 +408,17 @@ def qc_figure(result, section, path, *, horizons=None, title=None):
                 if isinstance(p, dict) and p.get("distance_m") is not None and p.get("depth_m") is not None:
                     pax.scatter([p["distance_m"] / 1000.0], [p["depth_m"]], **style)
             sax = pax.twinx()
-            sax.plot(d / 1000.0, slope, color=color, lw=1.2, ls="--", label="slope")
-            sax.set_ylabel("slope along line (°)", fontsize=_FONT_SIZE, color=color)
-            sax.tick_params(labelsize=_FONT_SIZE, colors=color, axis="y")
+            sax.plot(d / 1000.0, slope, color=OKABE_ITO["black"], lw=0.9, ls="--", label="slope")
+            sax.set_ylabel("slope along line (°)", fontsize=_FONT_SIZE)
+            sax.tick_params(labelsize=_FONT_SIZE, axis="y")
             sax.set_ylim(0, max(5.0, float(np.nanmax(slope)) * 1.15 if np.isfinite(slope).any() else 5.0))
-            pax.set_title("depth profile (solid, left axis) and slope (dashed, right axis)", fontsize=_FONT_SIZE, loc="left")
+            pax.set_title("margin depth profile (orange, left axis) and its slope (black dashed, right axis)",
+                          fontsize=_FONT_SIZE, loc="left")
         pax.tick_params(labelsize=_FONT_SIZE)
         tax = fig.add_subplot(gs[1 + i, 1])
         tax.axis("off")
         tax.add_patch(plt.Rectangle((0.0, 0.93), 0.04, 0.06, color=color, transform=tax.transAxes, clip_on=False))
-        tax.text(0.06, 0.99, _margin_text(m), va="top", ha="left", fontsize=8.2, family="DejaVu Sans",
+        tax.text(0.06, 1.0, _margin_text(m), va="top", ha="left", fontsize=7.6, family="DejaVu Sans",
                  transform=tax.transAxes, linespacing=1.25)
     return _save(fig, path)
 
@@ -460,6 +483,25 @@ def summary_figure(rows, path, *, title="Margins of this run"):
     return _save(fig, path)
 
 
+def _break_traces(rows):
+    """Break points of each volume and basin side joined in line order (the margin's strike)."""
+    groups = {}
+    for r in rows:
+        try:
+            x, y = float(r["break_x"]), float(r["break_y"])
+        except (TypeError, ValueError, KeyError):
+            continue
+        label = str(r.get("line") or "")
+        parts = label.split()
+        if len(parts) != 2 or not parts[1].lstrip("-").isdigit():
+            continue
+        groups.setdefault((r.get("file"), parts[0], r.get("direction")), []).append((int(parts[1]), x, y))
+    for (_, kind, _), pts in groups.items():
+        if len(pts) > 1:
+            pts.sort()
+            yield [p[1] for p in pts], [p[2] for p in pts], [f"{kind} {p[0]}" for p in pts]
+
+
 def map_figure(rows, path, *, title="Shelf-break map"):
     """Map of shelf-break points in x-y: by family, and by break depth (PNG).
 
@@ -500,6 +542,11 @@ def map_figure(rows, path, *, title="Shelf-break map"):
         if sel.any():
             axes[0].scatter(x[sel], y[sel], color=FAMILY_COLORS[f], s=28, edgecolor="black", linewidth=0.3,
                             label=f or "unclassified")
+    for xs, ys, labels in _break_traces(rows):
+        for ax in axes:
+            ax.plot(xs, ys, color="#7f7f7f", lw=0.8, zorder=1)
+        for i in (0, -1):  # name the first and last line of each margin
+            axes[0].annotate(labels[i], (xs[i], ys[i]), xytext=(4, 4), textcoords="offset points", fontsize=7)
     axes[0].legend(fontsize=8, title="margin family", title_fontsize=8)
     axes[0].set_title("shelf break by margin family", fontsize=10)
     ok = np.isfinite(dep)
@@ -515,9 +562,10 @@ def map_figure(rows, path, *, title="Shelf-break map"):
     for ax in axes:
         ax.set_xlabel("x (m)", fontsize=_FONT_SIZE)
         ax.set_aspect("equal", adjustable="datalim")
+        ax.ticklabel_format(useOffset=False, style="plain")
         ax.tick_params(labelsize=8)
         ax.grid(alpha=0.3)
     axes[0].set_ylabel("y (m)", fontsize=_FONT_SIZE)
-    fig.suptitle(title, fontsize=11)
+    fig.suptitle(f"{title} (grey lines join the breaks of one margin in line order: its strike)", fontsize=10)
     fig.tight_layout()
     return _save(fig, path)
