@@ -19,17 +19,10 @@ from ._checks import PLAUSIBLE_VELOCITY_M_S
 from .convert import horizon_to_depth, horizon_to_twt, section_to_depth, section_to_twt
 from .dip import dip_deg_from_depth, time_dip_ms_per_m, true_dip_deg
 from .dix import interval_to_rms, rms_to_interval
-from .models import (
-    DEFAULT_VELOCITY_M_S,
-    DEFAULT_VELOCITY_NOTE,
-    ConstantVelocity,
-    LinearVelocity,
-    TableVelocity,
-    VelocityModel,
-    velocity_from_dict,
-)
-from .options import VELOCITY_KINDS, is_segy_file, read_velocity_table, velocity_from_options
+from .models import DEFAULT_VELOCITY_M_S, DEFAULT_VELOCITY_NOTE, ConstantVelocity, LinearVelocity, VelocityModel
+from .options import VELOCITY_KINDS, is_segy_file, read_velocity_table, velocity_from_dict, velocity_from_options
 from .section_velocity import SectionVelocity
+from .table import TableVelocity
 
 __all__ = [
     "DEFAULT_VELOCITY_M_S",

@@ -9,7 +9,8 @@ JSON-safe description (``to_dict``) that is stored in every result file.
 Depth is measured from the z origin of the section (time zero, any recording
 delay included), positive down; times are two-way, in ms.
 
-Three one-dimensional models are here:
+Three one-dimensional models share it (the first two here, the table in
+:mod:`clinometry.depth.table`):
 
 ``ConstantVelocity``
     ``z = v t / 2``: the simplest honest choice when only an average velocity
@@ -45,7 +46,6 @@ import numpy as np
 
 from ..errors import VelocityError
 from ._checks import MS_PER_S, PLAUSIBLE_VELOCITY_M_S, broadcast_trace, check_velocities
-from .dix import check_table_times, interval_to_rms, rms_to_interval
 
 logger = logging.getLogger(__name__)
 
@@ -56,8 +56,6 @@ __all__ = [
     "VelocityModel",
     "ConstantVelocity",
     "LinearVelocity",
-    "TableVelocity",
-    "velocity_from_dict",
 ]
 
 #: Default velocity (m/s) used when a two-way-time section comes with no
@@ -325,158 +323,3 @@ class LinearVelocity(VelocityModel):
     def describe(self):
         return f"linear velocity v(z) = {self.v0_m_s:g} m/s + {self.k_per_s:g} 1/s * z"
 
-
-class TableVelocity(VelocityModel):
-    """Velocity from a table of (two-way time, velocity) pairs.
-
-    Parameters
-    ----------
-    twt_ms : array_like, shape (n,), ms
-        Two-way times, >= 0 and strictly increasing.
-    velocity_m_s : array_like, shape (n,), m/s
-        Interval or RMS velocity at each time.
-    kind : {"interval", "rms"}
-        ``"rms"`` tables are converted to interval velocities with Dix (1955).
-    source : str, optional
-        File the table came from (for messages and ``to_dict``).
-
-    Raises
-    ------
-    VelocityError
-        Unknown kind, mismatched lengths, times not increasing, implausible
-        velocities, or an RMS table whose Dix inversion is imaginary.
-
-    Notes
-    -----
-    Each velocity belongs to the layer whose base is at its time: the layer
-    from the previous table time (or time zero) down to it.  Interval
-    velocity is constant inside a layer; above time zero the first velocity
-    and below the last time the last velocity are extended.  Depth is
-    therefore piecewise linear in time, ``z_n = sum v_i (t_i - t_{i-1}) / 2``,
-    and inverting it is exact.  For an RMS table, the interval velocities
-    come from the Dix (1955) equation [1]_.
-
-    References
-    ----------
-    .. [1] Dix, C. H. (1955). Seismic velocities from surface measurements.
-       Geophysics 20(1), 68-86. doi:10.1190/1.1438126
-
-    Examples
-    --------
-    >>> m = TableVelocity([1000, 2000], [2000, 3000])
-    >>> m.depth_m([500, 1000, 1500, 2000, 2500]).tolist()
-    [500.0, 1000.0, 1750.0, 2500.0, 3250.0]
-    """
-
-    name = "table"
-
-    def __init__(self, twt_ms, velocity_m_s, kind: str = "interval", *, source: str = ""):
-        if kind not in ("interval", "rms"):
-            raise VelocityError(f"{source + ': ' if source else ''}velocity kind must be 'interval' or 'rms', got {kind!r}")
-        t = check_table_times(twt_ms, source=source)
-        v = np.asarray(velocity_m_s, dtype=np.float64)
-        if v.shape != t.shape:
-            raise VelocityError(
-                f"{source + ': ' if source else ''}velocity table has {t.size} times but {v.size} velocities; "
-                "give one velocity per time"
-            )
-        if kind == "rms":
-            v_int = rms_to_interval(t, v, source=source)
-        else:
-            v_int = check_velocities(v, what="interval velocity", source=source)
-        self.kind = kind
-        self.source = source
-        self.table_twt_ms = t
-        self.table_velocity_m_s = v
-        self.v_int_m_s = v_int
-        # layer tops (the base of layer i is t[i]); the last layer is extended below
-        self._tops = np.concatenate([[0.0], t])[: t.size]
-        thick = np.diff(self._tops)
-        self._ztops = np.concatenate([[0.0], np.cumsum(v_int[:-1] * thick / MS_PER_S / 2.0)])
-
-    def _layer_from_time(self, t):
-        k = np.searchsorted(self._tops, t, side="right") - 1
-        return np.clip(k, 0, self._tops.size - 1)
-
-    def _depth(self, t, tr):
-        k = self._layer_from_time(t)
-        return self._ztops[k] + self.v_int_m_s[k] * ((t - self._tops[k]) / MS_PER_S) / 2.0
-
-    def _twt(self, z, tr):
-        k = np.clip(np.searchsorted(self._ztops, z, side="right") - 1, 0, self._ztops.size - 1)
-        return self._tops[k] + 2.0 * (z - self._ztops[k]) / self.v_int_m_s[k] * MS_PER_S
-
-    def _vint(self, t, tr):
-        # a layer includes its base time: (t_{i-1}, t_i] has velocity v_i
-        k = np.clip(np.searchsorted(self._tops, t, side="left") - 1, 0, self._tops.size - 1)
-        return np.where(np.isnan(t), np.nan, self.v_int_m_s[k])
-
-    def rms_velocity(self) -> np.ndarray:
-        """RMS velocity at each table time (Dix 1955), m/s."""
-        return interval_to_rms(self.table_twt_ms, self.v_int_m_s, source=self.source)
-
-    def scaled(self, factor):
-        f = self._check_factor(factor)
-        return TableVelocity(self.table_twt_ms, self.table_velocity_m_s * f, self.kind, source=self.source)
-
-    def to_dict(self):
-        d = {
-            "kind": self.kind,
-            "twt_ms": self.table_twt_ms.tolist(),
-            "velocity_m_s": self.table_velocity_m_s.tolist(),
-        }
-        if self.kind == "rms":
-            d["interval_velocity_m_s"] = self.v_int_m_s.tolist()
-        if self.source:
-            d["source"] = self.source
-        return self._base_dict(d)
-
-    def describe(self):
-        src = f" from {self.source}" if self.source else ""
-        return (
-            f"{self.kind} velocity table{src}: {self.table_twt_ms.size} rows, "
-            f"{self.table_twt_ms[0]:g}-{self.table_twt_ms[-1]:g} ms, "
-            f"interval {self.v_int_m_s.min():g}-{self.v_int_m_s.max():g} m/s"
-        )
-
-
-def velocity_from_dict(d) -> VelocityModel:
-    """Rebuild a one-dimensional model from its ``to_dict()`` record.
-
-    Parameters
-    ----------
-    d : mapping
-        ``{"model": "constant"|"linear"|"table", ...}`` as written by
-        ``to_dict``.
-
-    Returns
-    -------
-    VelocityModel
-
-    Raises
-    ------
-    VelocityError
-        Unknown model name, missing keys, or a velocity section (those are
-        rebuilt from their SEG-Y file with ``SectionVelocity.from_segy``).
-
-    Examples
-    --------
-    >>> velocity_from_dict({"model": "linear", "v0_m_s": 1800, "k_per_s": 0.6}).describe()
-    'linear velocity v(z) = 1800 m/s + 0.6 1/s * z'
-    """
-    try:
-        name = d["model"]
-        if name == "constant":
-            return ConstantVelocity(d["velocity_m_s"], fallback=d.get("fallback"))
-        if name == "linear":
-            return LinearVelocity(d["v0_m_s"], d["k_per_s"])
-        if name == "table":
-            return TableVelocity(d["twt_ms"], d["velocity_m_s"], d.get("kind", "interval"), source=d.get("source", ""))
-    except (KeyError, TypeError) as err:
-        raise VelocityError(f"velocity record {dict(d)!r} is missing {err}; write it with model.to_dict()") from err
-    if name == "section":
-        raise VelocityError(
-            f"velocity record for a velocity section ({d.get('source', 'unknown file')}) cannot be rebuilt "
-            "from its summary; load it again with SectionVelocity.from_segy"
-        )
-    raise VelocityError(f"unknown velocity model {name!r}; expected constant, linear, table or section")

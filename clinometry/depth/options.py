@@ -22,16 +22,15 @@ from .models import (
     DEFAULT_VELOCITY_NOTE,
     ConstantVelocity,
     LinearVelocity,
-    TableVelocity,
     VelocityModel,
-    velocity_from_dict,
 )
 from ._matching import LATERAL_MODES
 from .section_velocity import SectionVelocity
+from .table import TableVelocity
 
 logger = logging.getLogger(__name__)
 
-__all__ = ["velocity_from_options", "read_velocity_table", "is_segy_file", "VELOCITY_KINDS"]
+__all__ = ["velocity_from_options", "velocity_from_dict", "read_velocity_table", "is_segy_file", "VELOCITY_KINDS"]
 
 VELOCITY_KINDS = ("interval", "rms")
 _SEGY_SUFFIXES = (".sgy", ".segy", ".seg-y", ".seg")
@@ -247,3 +246,45 @@ def _model_from_file(path, section, kind, lateral):
     if lateral != "exact":
         raise VelocityError(f"{fname}: lateral velocity interpolation applies to a velocity SEG-Y, not to a table")
     return read_velocity_table(path, kind=kind)
+
+
+def velocity_from_dict(d) -> VelocityModel:
+    """Rebuild a one-dimensional model from its ``to_dict()`` record.
+
+    Parameters
+    ----------
+    d : mapping
+        ``{"model": "constant"|"linear"|"table", ...}`` as written by
+        ``to_dict``.
+
+    Returns
+    -------
+    VelocityModel
+
+    Raises
+    ------
+    VelocityError
+        Unknown model name, missing keys, or a velocity section (those are
+        rebuilt from their SEG-Y file with ``SectionVelocity.from_segy``).
+
+    Examples
+    --------
+    >>> velocity_from_dict({"model": "linear", "v0_m_s": 1800, "k_per_s": 0.6}).describe()
+    'linear velocity v(z) = 1800 m/s + 0.6 1/s * z'
+    """
+    try:
+        name = d["model"]
+        if name == "constant":
+            return ConstantVelocity(d["velocity_m_s"], fallback=d.get("fallback"))
+        if name == "linear":
+            return LinearVelocity(d["v0_m_s"], d["k_per_s"])
+        if name == "table":
+            return TableVelocity(d["twt_ms"], d["velocity_m_s"], d.get("kind", "interval"), source=d.get("source", ""))
+    except (KeyError, TypeError) as err:
+        raise VelocityError(f"velocity record {dict(d)!r} is missing {err}; write it with model.to_dict()") from err
+    if name == "section":
+        raise VelocityError(
+            f"velocity record for a velocity section ({d.get('source', 'unknown file')}) cannot be rebuilt "
+            "from its summary; load it again with SectionVelocity.from_segy"
+        )
+    raise VelocityError(f"unknown velocity model {name!r}; expected constant, linear, table or section")

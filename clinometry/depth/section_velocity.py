@@ -162,16 +162,21 @@ class SectionVelocity(VelocityModel):
     def _twt(self, z, tr):
         tr = self._traces(tr)
         out = np.full(z.shape, np.nan)
+        if not z.size:
+            return out
         tk = self._tk
-        for k in np.unique(tr):
-            sel = tr == k
+        flat_z, flat_tr = z.ravel(), tr.ravel()
+        order = np.argsort(flat_tr, kind="stable")  # group values by trace once
+        traces, starts = np.unique(flat_tr[order], return_index=True)
+        flat_out = out.ravel()
+        for k, sel in zip(traces, np.split(order, starts[1:])):
             zk = self._zk[k]
-            zz = z[sel]
+            zz = flat_z[sel]
             t = np.interp(zz, zk, tk)
             t = np.where(zz < zk[0], tk[0] + 2.0 * (zz - zk[0]) / self._v_top[k] * MS_PER_S, t)
             t = np.where(zz > zk[-1], tk[-1] + 2.0 * (zz - zk[-1]) / self._v_bottom[k] * MS_PER_S, t)
-            out[sel] = np.where(np.isnan(zz), np.nan, t)
-        return out
+            flat_out[sel] = np.where(np.isnan(zz), np.nan, t)
+        return flat_out.reshape(z.shape)
 
     def _vint(self, t, tr):
         tr = self._traces(tr)
