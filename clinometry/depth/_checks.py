@@ -13,6 +13,16 @@ from ..errors import VelocityError
 #: Common practice, no source.
 PLAUSIBLE_VELOCITY_M_S = (300.0, 9000.0)
 
+#: Steepest plausible linear velocity gradient k in v(z) = v0 + k z, 1/s.  At
+#: 5 1/s the velocity doubles every 0.28 s of two-way time; gradients in
+#: sedimentary sections are far gentler, so a larger k is almost always a
+#: typing or unit slip.  Common practice, no source.
+MAX_GRADIENT_PER_S = 5.0
+
+#: A velocity table whose last two-way time is below this (ms) was almost
+#: certainly written in seconds.  Common practice, no source.
+MIN_TABLE_SPAN_MS = 20.0
+
 #: milliseconds per second (unit conversion)
 MS_PER_S = 1000.0
 

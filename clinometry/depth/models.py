@@ -45,7 +45,7 @@ import logging
 import numpy as np
 
 from ..errors import VelocityError
-from ._checks import MS_PER_S, PLAUSIBLE_VELOCITY_M_S, broadcast_trace, check_velocities
+from ._checks import MAX_GRADIENT_PER_S, MS_PER_S, PLAUSIBLE_VELOCITY_M_S, broadcast_trace, check_velocities
 
 logger = logging.getLogger(__name__)
 
@@ -243,14 +243,15 @@ class LinearVelocity(VelocityModel):
     v0_m_s : float, m/s
         Velocity at time zero.
     k_per_s : float, 1/s
-        Gradient dv/dz, >= 0 (``k = 0`` is a constant velocity).
+        Gradient dv/dz, 0 <= k <= ``MAX_GRADIENT_PER_S`` (``k = 0`` is a
+        constant velocity).
 
     Raises
     ------
     VelocityError
-        Implausible ``v0``, or a negative or non-finite gradient (a negative
-        gradient drives the velocity to zero at depth ``v0 / |k|``; use a
-        table for a velocity inversion).
+        Implausible ``v0``, or a negative, non-finite or implausibly steep
+        gradient (a negative gradient drives the velocity to zero at depth
+        ``v0 / |k|``; use a table for a velocity inversion).
 
     Notes
     -----
@@ -291,6 +292,12 @@ class LinearVelocity(VelocityModel):
             raise VelocityError(
                 f"linear velocity model: gradient k = {k:g} 1/s is negative, so the velocity falls to zero "
                 f"at {self.v0_m_s / -k:g} m depth; give k >= 0, or a velocity table for a velocity inversion"
+            )
+        if k > MAX_GRADIENT_PER_S:
+            raise VelocityError(
+                f"linear velocity model: gradient k = {k:g} 1/s is implausibly steep (above "
+                f"{MAX_GRADIENT_PER_S:g} 1/s the velocity doubles in under 0.28 s of two-way time); "
+                "k is in 1/s, e.g. 0.6"
             )
         self.k_per_s = k
 

@@ -12,7 +12,7 @@ from __future__ import annotations
 import numpy as np
 
 from ..errors import VelocityError
-from ._checks import MS_PER_S, check_velocities
+from ._checks import MIN_TABLE_SPAN_MS, MS_PER_S, check_velocities
 from .dix import check_table_times, interval_to_rms, rms_to_interval
 from .models import VelocityModel
 
@@ -72,6 +72,11 @@ class TableVelocity(VelocityModel):
             raise VelocityError(
                 f"{source + ': ' if source else ''}velocity table has {t.size} times but {v.size} velocities; "
                 "give one velocity per time"
+            )
+        if t.size > 1 and t[-1] < MIN_TABLE_SPAN_MS:
+            raise VelocityError(
+                f"{source + ': ' if source else ''}velocity table ends at {t[-1]:g} ms two-way time; the times "
+                "look like seconds: give them in ms"
             )
         if kind == "rms":
             v_int = rms_to_interval(t, v, source=source)

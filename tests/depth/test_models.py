@@ -137,6 +137,8 @@ def test_default_velocity_is_plausible_for_carbonate_sections():
         (lambda: TableVelocity([1000, 2000], [3000, 2000], kind="rms"), "imaginary interval velocity.*1000-2000 ms"),
         (lambda: TableVelocity([1000, 2000], [3000], kind="rms"), "2 times but 1 velocities"),
         (lambda: TableVelocity([1000], [3000], kind="average"), "'interval' or 'rms'"),
+        (lambda: LinearVelocity(1800, 6.0), "gradient k = 6 1/s is implausibly steep"),
+        (lambda: TableVelocity([0.0, 1.2, 2.5], [1500, 2500, 3200]), "ends at 2.5 ms two-way time; the times look like seconds"),
     ],
 )
 def test_invalid_models_raise_one_line_velocity_error(make, match):
