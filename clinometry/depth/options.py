@@ -85,10 +85,11 @@ def read_velocity_table(path, *, kind: str = "interval") -> TableVelocity:
     Examples
     --------
     >>> import tempfile, pathlib
-    >>> p = pathlib.Path(tempfile.mkdtemp()) / "v.csv"
-    >>> _ = p.write_text("twt_ms,velocity_m_s\\n0,1800\\n1000,2600\\n")
-    >>> read_velocity_table(p).describe()
-    'interval velocity table from v.csv: 2 rows, 0-1000 ms, interval 1800-2600 m/s'
+    >>> with tempfile.TemporaryDirectory() as folder:
+    ...     p = pathlib.Path(folder) / "v.csv"
+    ...     _ = p.write_text("twt_ms,velocity_m_s\\n0,1800\\n1000,2600\\n")
+    ...     print(read_velocity_table(p).describe())
+    interval velocity table from v.csv: 2 rows, 0-1000 ms, interval 1800-2600 m/s
     """
     fname = os.path.basename(os.fspath(path))
     times, vels = [], []
