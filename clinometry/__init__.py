@@ -21,6 +21,11 @@ from .errors import (  # noqa: F401
     VelocityError,
 )
 from .section import check_section, make_section  # noqa: F401
+from .io import read_section  # noqa: F401
+from .picking import pick  # noqa: F401
+from .classify import classify  # noqa: F401
+from .result import Result  # noqa: F401
+from .pipeline import analyze, measure  # noqa: F401
 
 __all__ = [
     "__version__",
@@ -37,4 +42,10 @@ __all__ = [
     "VelocityError",
     "check_section",
     "make_section",
+    "read_section",
+    "pick",
+    "classify",
+    "Result",
+    "analyze",
+    "measure",
 ]

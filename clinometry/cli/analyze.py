@@ -1,14 +1,99 @@
-"""clinometry analyze (being built)."""
+"""Analyze one SEG-Y line: pick the platform top, shelf break and toe, measure
+slope, relief and trajectory, and classify each margin.
 
-from ..errors import ClinometryError
+Writes into the output folder
+  <stem>.json            the results contract (schema_version 1)
+  <stem>.horizons.csv    the picked (or given) horizons, z and depth
+  <stem>.png             a QC plot (unless --no-plot)
+and prints one line per margin: direction, family, confidence, slope, relief.
 
-DESCRIPTION = "analyze (being built)"
-EXAMPLE = "clinometry analyze --help"
+With no velocity option a TWT line is converted with the package's default
+constant velocity; the result records that fallback.  The numbers support
+interpretation only: do not base drilling or storage decisions on them alone;
+follow local regulations and licensed practice.
+"""
+
+from __future__ import annotations
+
+import logging
+from pathlib import Path
+
+from .._plugins import plugin_names
+
+DESCRIPTION = "analyze one line: picks, slope, relief, trajectory and margin family"
+EXAMPLE = "clinometry analyze line_07.sgy --velocity 2800 --out results/"
+
+__all__ = ["DESCRIPTION", "EXAMPLE", "configure", "run"]
+
+logger = logging.getLogger(__name__)
 
 
-def configure(parser):
-    pass
+def configure(parser) -> None:
+    """Add the options of ``clinometry analyze`` to ``parser``."""
+    from ._velocity import add_velocity_options
+
+    parser.add_argument("file", help="SEG-Y file (2D line or 3D volume with --inline/--crossline)")
+    add_velocity_options(parser)
+    line = parser.add_mutually_exclusive_group()
+    line.add_argument("--inline", type=int, metavar="N", help="inline number of a 3D volume to analyze")
+    line.add_argument("--crossline", type=int, metavar="N", help="crossline number of a 3D volume to analyze")
+    parser.add_argument(
+        "--horizons", metavar="PICKS.csv",
+        help="your own margin horizon: CSV with columns 'trace' (0-based) or 'x','y' (m), and 'z' "
+        "(ms TWT or m depth, as the section); replaces the automatic picker",
+    )
+    parser.add_argument("--picker", default="default", choices=plugin_names("picker"),
+                        help="picker plugin (default: %(default)s)")
+    parser.add_argument("--classifier", default="rules", choices=plugin_names("classifier"),
+                        help="classifier plugin (default: %(default)s)")
+    parser.add_argument("--thresholds", metavar="FILE.toml",
+                        help="TOML file overriding the classification thresholds")
+    parser.add_argument("--no-uncertainty", action="store_true",
+                        help="skip the Monte-Carlo P10/P50/P90 of slope and relief")
+    parser.add_argument("--seed", type=int, default=0, help="seed of the random draws (default: %(default)s)")
+    parser.add_argument("--out", required=True, metavar="DIR", help="output folder (created if missing)")
+    parser.add_argument("--no-plot", action="store_true", help="do not write the QC plot")
 
 
-def run(args):
-    raise ClinometryError("'analyze' is not available yet in this build")
+def _stem(args) -> str:
+    stem = Path(args.file).stem
+    if args.inline is not None:
+        stem += f"_il{args.inline}"
+    if args.crossline is not None:
+        stem += f"_xl{args.crossline}"
+    return stem
+
+
+def run(args) -> int:
+    """Run ``clinometry analyze``; 0 when the files were written."""
+    from ..pipeline import analyze_full
+    from ..report.files import write_result_files
+
+    result, section, model = analyze_full(
+        args.file,
+        velocity=getattr(args, "velocity", None),
+        velocity_linear=getattr(args, "velocity_linear", None),
+        velocity_file=getattr(args, "velocity_file", None),
+        velocity_kind=getattr(args, "velocity_kind", "interval") or "interval",
+        domain=getattr(args, "domain", None),
+        inline=args.inline,
+        crossline=args.crossline,
+        picker=args.picker,
+        classifier=args.classifier,
+        thresholds=args.thresholds,
+        uncertainty=not args.no_uncertainty,
+        seed=args.seed,
+        horizons=args.horizons,
+    )
+    paths = write_result_files(result, args.out, stem=_stem(args), plot=not args.no_plot,
+                               section=section, velocity=model)
+    name = Path(args.file).name
+    print(f"{name}: {result.n_margins} margin(s); results in {paths['json']}")
+    for line in result.summary_lines():
+        print(f"  {line}")
+    if not result.n_margins:
+        for note in result.run.get("notes", [])[-1:]:
+            print(f"  {note}")
+    for fb in result.run.get("fallbacks", []):
+        print(f"  fallback: {fb}")
+    return 0

@@ -1,0 +1,129 @@
+"""``clinometry analyze``: files written, stdout summary, exit codes, stderr one-liners.
+
+The JSON contract itself is checked key by key in tests/test_result.py.
+"""
+
+import csv
+import json
+import subprocess
+import sys
+
+import numpy.testing as npt
+import pytest
+
+from clinometry.cli import main
+
+
+def _run(capsys, argv):
+    code = main(argv)
+    out, err = capsys.readouterr()
+    return code, out, err
+
+
+def test_analyze_writes_json_horizons_and_summary(synthetic_line_file, tmp_path, capsys):
+    path, truth = synthetic_line_file
+    out_dir = tmp_path / "res"
+    code, out, err = _run(capsys, ["analyze", str(path), "--velocity", "2500", "--no-uncertainty",
+                                   "--no-plot", "--out", str(out_dir)])
+    assert code == 0, err
+    d = json.loads((out_dir / "shelf_line.json").read_text())
+    assert d["source"]["n_traces"] == truth["n_traces"]
+    lines = out.splitlines()
+    assert lines[0] == f"shelf_line.sgy: {len(d['margins'])} margin(s); results in {out_dir / 'shelf_line.json'}"
+    m = d["margins"][0]
+    assert lines[1] == (
+        f"  margin {m['direction']}: {m['family']}{' (' + m['subtype'] + ')' if m['subtype'] else ''}, "
+        f"confidence {m['confidence']:.2f}, slope max {m['slope_max_deg']:.1f} deg, "
+        f"mean {m['slope_mean_deg']:.1f} deg, relief {m['relief_m']:.0f} m"
+    )
+    assert not (out_dir / "shelf_line.png").exists()
+    with open(out_dir / "shelf_line.horizons.csv", newline="") as fh:
+        rows = list(csv.DictReader(fh))
+    assert list(rows[0]) == ["horizon_id", "role", "trace", "distance_m", "x", "y", "z", "depth_m", "quality"]
+    # depth = v t / 2 for the constant 2500 m/s (Sheriff & Geldart 1995, from memory)
+    r = rows[len(rows) // 2]
+    npt.assert_allclose(float(r["depth_m"]), 2500.0 * float(r["z"]) / 2000.0, rtol=1e-6)
+
+
+def test_analyze_writes_qc_plot_unless_no_plot(synthetic_line_file, tmp_path, capsys):
+    path, _ = synthetic_line_file
+    code, _, err = _run(capsys, ["analyze", str(path), "--velocity", "2500", "--no-uncertainty",
+                                 "--out", str(tmp_path)])
+    assert code == 0, err
+    png = tmp_path / "shelf_line.png"
+    # PNG signature, ISO/IEC 15948 section 5.2
+    assert png.read_bytes()[:8] == b"\x89PNG\r\n\x1a\n"
+
+
+def test_default_velocity_fallback_is_printed(synthetic_line_file, tmp_path, capsys):
+    from clinometry.depth import DEFAULT_VELOCITY_NOTE
+
+    path, _ = synthetic_line_file
+    code, out, err = _run(capsys, ["analyze", str(path), "--no-uncertainty", "--no-plot", "--out", str(tmp_path)])
+    assert code == 0, err
+    assert f"  fallback: {DEFAULT_VELOCITY_NOTE}" in out.splitlines()
+    assert json.loads((tmp_path / "shelf_line.json").read_text())["velocity"]["default_fallback"] is True
+
+
+def test_missing_file_exit_2_one_line_naming_it(tmp_path, capsys):
+    code, out, err = _run(capsys, ["analyze", str(tmp_path / "nothere.sgy"), "--out", str(tmp_path)])
+    assert code == 2 and out == ""
+    assert err.count("\n") == 1 and err.startswith("clinometry: error: ") and "nothere.sgy" in err
+
+
+def test_bad_horizon_csv_exit_2_names_file_row_column(synthetic_line_file, tmp_path, capsys):
+    path, _ = synthetic_line_file
+    bad = tmp_path / "picks_bad.csv"
+    bad.write_text("trace,z\n10,400\n11,four hundred\n")
+    code, _, err = _run(capsys, ["analyze", str(path), "--velocity", "2500", "--horizons", str(bad),
+                                 "--out", str(tmp_path)])
+    assert code == 2
+    assert err == "clinometry: error: picks_bad.csv: row 3, column 'z': 'four hundred' is not a number; " \
+                  "write plain decimal numbers (empty cells are skipped)\n"
+
+
+def test_horizons_option_measures_the_given_horizon(synthetic_line_file, synthetic_shelf, tmp_path, capsys):
+    path, truth = synthetic_line_file
+    section, _ = synthetic_shelf
+    # the interpreter's pick: the true final margin profile, sampled every 4th trace, in ms
+    from clinometry.pipeline import analyze_full
+
+    auto, sec, _ = analyze_full(section, velocity=2500.0, uncertainty=False)
+    prof = auto.picks.horizon(auto.picks.margins[0].profile_id)
+    picks = tmp_path / "mine.csv"
+    picks.write_text("trace,z\n" + "".join(f"{t},{float(z)!r}\n" for t, z in zip(prof.trace[::4], prof.z[::4])))
+    code, out, err = _run(capsys, ["analyze", str(path), "--velocity", "2500", "--horizons", str(picks),
+                                   "--no-uncertainty", "--no-plot", "--out", str(tmp_path)])
+    assert code == 0, err
+    d = json.loads((tmp_path / "shelf_line.json").read_text())
+    assert d["run"]["horizon_source"] == str(picks) and d["run"]["picker"] == "user_horizon"
+    (m,) = d["margins"]
+    assert m["direction"] == "+" and m["family"] == truth["expected_family"]
+
+
+def test_unknown_classifier_is_a_usage_error(synthetic_line_file, tmp_path, capsys):
+    path, _ = synthetic_line_file
+    with pytest.raises(SystemExit) as info:
+        main(["analyze", str(path), "--classifier", "nope", "--out", str(tmp_path)])
+    assert info.value.code == 2
+    err = capsys.readouterr().err
+    assert "argument --classifier: invalid choice: 'nope' (choose from " in err and "rules" in err
+
+
+def test_bad_thresholds_file_exit_2_names_it(synthetic_line_file, tmp_path, capsys):
+    path, _ = synthetic_line_file
+    bad = tmp_path / "limits.toml"
+    bad.write_text("this is = = not toml\n")
+    code, _, err = _run(capsys, ["analyze", str(path), "--velocity", "2500", "--thresholds", str(bad),
+                                 "--no-uncertainty", "--no-plot", "--out", str(tmp_path)])
+    assert code == 2
+    assert err.startswith("clinometry: error: ") and "limits.toml" in err and err.count("\n") == 1
+
+
+def test_console_script_runs_plugins_listing():
+    # the installed console script (setup.cfg console_scripts) in a subprocess
+    proc = subprocess.run([sys.executable, "-m", "clinometry", "plugins", "--kind", "picker"],
+                          capture_output=True, text=True, timeout=120)
+    assert proc.returncode == 0, proc.stderr
+    assert proc.stdout.splitlines()[:2] == ["pickers (clinometry.pickers):",
+                                            "  default  [clinometry.picking.surfaces:pick_default]"]
