@@ -7,13 +7,13 @@ samples.  Headers are checked against the file size before anything is
 allocated (:mod:`clinometry.io.sniff`); samples are decoded by segyio.
 """
 
+from .geometry import MIN_GRID_FILL, is_3d, line_numbers
 from .inspect import inspect_file
 from .segy import (
     DEFAULT_TRACE_SPACING_M,
     MAX_SAMPLE_INTERVAL,
-    is_3d,
+    delay_from_headers,
     iter_sections,
-    line_numbers,
     read_section,
     sample_interval_from_headers,
 )
@@ -29,6 +29,8 @@ __all__ = [
     "SegyLayout",
     "decode_text_header",
     "sample_interval_from_headers",
+    "delay_from_headers",
+    "MIN_GRID_FILL",
     "MAX_SAMPLE_INTERVAL",
     "DEFAULT_TRACE_SPACING_M",
 ]

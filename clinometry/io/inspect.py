@@ -11,15 +11,19 @@ reported under ``"problems"`` instead of raised.
 
 from __future__ import annotations
 
+import logging
 import os
 
 import numpy as np
 
 from .headers import TRACE_HEADER, apply_scalar
-from .segy import MAX_SAMPLE_INTERVAL, _check_header_bytes, delay_from_headers, _geometry, _Headers, sample_interval_from_headers
+from .geometry import TraceHeaders, check_header_bytes, survey_geometry
+from .segy import MAX_SAMPLE_INTERVAL, delay_from_headers, sample_interval_from_headers
 from .sniff import sniff_segy
 
 __all__ = ["inspect_file"]
+
+logger = logging.getLogger(__name__)
 
 
 def _range(v):
@@ -62,7 +66,7 @@ def inspect_file(path, *, domain="twt", coordinates="cdp", header_bytes=None) ->
     """
     layout = sniff_segy(path)
     name = os.path.basename(layout.path)
-    chosen = _check_header_bytes(name, header_bytes, coordinates)
+    chosen = check_header_bytes(name, header_bytes, coordinates)
     problems = []
     dz, source = sample_interval_from_headers(layout, domain=domain)
     if dz is None:
@@ -70,9 +74,9 @@ def inspect_file(path, *, domain="twt", coordinates="cdp", header_bytes=None) ->
     elif dz > MAX_SAMPLE_INTERVAL[domain]:
         problems.append(f"sample interval {dz:g} is absurd for {domain} data; pass sample_interval= when reading")
     z0 = delay_from_headers(layout)
-    hdr = _Headers(layout)
+    hdr = TraceHeaders(layout)
     try:
-        geo = _geometry(hdr, chosen)
+        geo = survey_geometry(hdr, chosen)
         scal = hdr.field(TRACE_HEADER["coordinate_scalar"][0])
         x = apply_scalar(hdr.field(chosen["x"]), scal)
         y = apply_scalar(hdr.field(chosen["y"]), scal)

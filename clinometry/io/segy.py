@@ -11,8 +11,11 @@ Method
    only for the traces of the requested line.  segyio 1.9.14 has no decoder
    for the 3-byte integer formats 7 and 15 and silently falls back to IBM
    float, giving wrong values; for those two formats the 3-byte integers are
-   assembled with numpy from the raw trace bytes (the only samples decoded
-   outside segyio).
+   assembled with numpy from the raw trace bytes.  segyio also decodes
+   *unnormalised* IBM floats (format 1, fraction's leading hex digit 0, which
+   the format allows and some recorders write) wrongly; those samples alone
+   are recomputed with the IBM formula [3]_ and counted in ``attrs["notes"]``.
+   All other samples are segyio's.
 4. 3D geometry is worked out from the inline/crossline header fields
    (default bytes 189/193): a file is 3D when it has at least two inlines,
    two crosslines and no (inline, crossline) pair twice.  Missing traces
@@ -34,6 +37,8 @@ References
    Format. Society of Exploration Geophysicists.
 .. [2] SEG Technical Standards Committee (2017). SEG-Y_r2.0 Data Exchange
    Format. Society of Exploration Geophysicists (from memory).
+.. [3] IBM (1964-). IBM System/360 Principles of Operation, "Floating-Point
+   Arithmetic": short (32-bit) hexadecimal floating-point format (from memory).
 """
 
 from __future__ import annotations
@@ -46,23 +51,15 @@ import numpy as np
 
 from ..errors import DataQualityWarning, FallbackWarning, GeometryError, SegyReadError
 from ..section import DOMAINS, Z_UNITS, distance_from_xy, make_section
-from .headers import (
-    COORDINATE_PAIRS,
-    DEFAULT_HEADER_BYTES,
-    TRACE_HEADER,
-    TRACE_HEADER_BYTES,
-    apply_scalar,
-)
+from .geometry import TraceHeaders, check_header_bytes, line_indices, survey_geometry
+from .headers import TRACE_HEADER, apply_scalar
 from .sniff import SegyLayout, sniff_segy
 
 __all__ = [
     "read_section",
     "iter_sections",
-    "is_3d",
-    "line_numbers",
     "MAX_SAMPLE_INTERVAL",
     "DEFAULT_TRACE_SPACING_M",
-    "MIN_GRID_FILL",
     "sample_interval_from_headers",
     "delay_from_headers",
 ]
@@ -82,63 +79,8 @@ _HEADER_INTERVAL_PER_UNIT = 1000.0
 DEFAULT_TRACE_SPACING_M = 25.0
 #: international foot in metres (exact by definition, common practice)
 _FOOT_M = 0.3048
-#: a volume is 3D when its (inline, crossline) pairs fill at least this
-#: fraction of their bounding grid; lower fills are counters or damaged
-#: headers, not a survey (our choice, common practice, no source)
-MIN_GRID_FILL = 0.5
-_FIELD_WIDTH = {start: width for start, width in TRACE_HEADER.values()}
 _COORDINATE_UNITS_ARCSEC = 2  # bytes 89-90, SEG-Y rev 1 [1]_
 _MEASUREMENT_FEET = 2  # binary bytes 3255-3256, SEG-Y rev 1 [1]_
-
-
-# --------------------------------------------------------------------------- headers
-def _check_header_bytes(name, header_bytes, coordinates):
-    if coordinates not in COORDINATE_PAIRS:
-        raise GeometryError(
-            f"{name}: coordinates={coordinates!r} is not one of {sorted(COORDINATE_PAIRS)}"
-        )
-    xb, yb = COORDINATE_PAIRS[coordinates]
-    chosen = dict(DEFAULT_HEADER_BYTES, x=xb, y=yb)
-    for key, byte in dict(header_bytes or {}).items():
-        if key not in DEFAULT_HEADER_BYTES:
-            raise GeometryError(
-                f"{name}: header_bytes key {key!r} is not one of {sorted(DEFAULT_HEADER_BYTES)}"
-            )
-        width = _FIELD_WIDTH.get(byte, 4)
-        if not isinstance(byte, (int, np.integer)) or not 1 <= byte <= TRACE_HEADER_BYTES - width + 1:
-            raise GeometryError(
-                f"{name}: header_bytes[{key!r}] = {byte!r} is not a byte position 1-{TRACE_HEADER_BYTES - 3} "
-                "of the 240-byte trace header (SEG-Y rev 1 numbering, 1-based)"
-            )
-        chosen[key] = int(byte)
-    return chosen
-
-
-class _Headers:
-    """Read-only view of the trace headers of a checked file."""
-
-    def __init__(self, layout: SegyLayout):
-        self.layout = layout
-        self._mm = np.memmap(
-            layout.path, dtype=np.uint8, mode="r", offset=layout.data_offset,
-            shape=(layout.n_traces, layout.trace_bytes),
-        )
-
-    def field(self, byte: int, idx=None) -> np.ndarray:
-        width = _FIELD_WIDTH.get(byte, 4)
-        cols = self._mm[:, byte - 1 : byte - 1 + width] if idx is None else self._mm[idx, byte - 1 : byte - 1 + width]
-        kind = "u" if byte == TRACE_HEADER["samples"][0] else "i"  # sample count is unsigned
-        dt = np.dtype(("<" if self.layout.byte_order == "little" else ">") + f"{kind}{width}")
-        return np.ascontiguousarray(cols).view(dt).reshape(-1).astype(np.int64)
-
-    def raw_samples(self, idx) -> np.ndarray:
-        return np.asarray(self._mm[idx, TRACE_HEADER_BYTES:])
-
-    def close(self):
-        mm = getattr(self._mm, "_mmap", None)
-        self._mm = None
-        if mm is not None:
-            mm.close()
 
 
 # --------------------------------------------------------------------------- z axis
@@ -225,45 +167,8 @@ def _z_axis(layout, name, domain, sample_interval, fallbacks):
     return z, dz, source
 
 
-# --------------------------------------------------------------------------- geometry
-def _geometry(hdr: _Headers, chosen):
-    il = hdr.field(chosen["inline"])
-    xl = hdr.field(chosen["crossline"])
-    uil, uxl = np.unique(il), np.unique(xl)
-    n_pairs = len(np.unique(np.stack([il, xl]), axis=1).T) if il.size else 0
-    if uil.size >= 2 and uxl.size >= 2:
-        if n_pairs != il.size:
-            kind = "pre-stack"
-        elif il.size >= MIN_GRID_FILL * uil.size * uxl.size:
-            kind = "3d"
-        else:
-            kind = "2d"  # header numbers that do not form a grid (e.g. counters, garbage)
-    else:
-        kind = "2d"
-    return {"kind": kind, "inline": il, "crossline": xl, "inlines": uil, "crosslines": uxl, "n_pairs": n_pairs}
-
-
-def _line_indices(name, geo, direction, number):
-    key, other = ("inline", "crossline") if direction == "inline" else ("crossline", "inline")
-    if geo["kind"] != "3d":
-        raise GeometryError(
-            f"{name}: {key}={number} asked for, but the file is not a 3D post-stack volume "
-            f"({geo['kind']}: {geo['inlines'].size} inline and {geo['crosslines'].size} crossline numbers "
-            f"in the header fields used); read it without {key}=, or point header_bytes= at the "
-            "inline/crossline fields"
-        )
-    vals = geo[key + "s"]
-    if number not in vals:
-        raise GeometryError(
-            f"{name}: {key} {number} is not in the file; {key}s run {vals.min()}-{vals.max()} "
-            f"({vals.size} lines)"
-        )
-    idx = np.flatnonzero(geo[key] == number)
-    return idx[np.argsort(geo[other][idx], kind="stable")]
-
-
 # --------------------------------------------------------------------------- samples
-def _read_samples(layout: SegyLayout, hdr: _Headers, idx: np.ndarray) -> np.ndarray:
+def _read_samples(layout: SegyLayout, hdr: TraceHeaders, idx: np.ndarray) -> np.ndarray:
     if layout.format_code in (7, 15):
         raw = hdr.raw_samples(idx).reshape(len(idx), layout.n_samples, 3).astype(np.int32)
         if layout.byte_order == "big":
@@ -272,7 +177,7 @@ def _read_samples(layout: SegyLayout, hdr: _Headers, idx: np.ndarray) -> np.ndar
             v = raw[..., 0] | (raw[..., 1] << 8) | (raw[..., 2] << 16)
         if layout.format_code == 7:  # two's complement, 24 bits [2]_
             v = np.where(v >= 1 << 23, v - (1 << 24), v)
-        return v.astype(np.float32)
+        return v.astype(np.float32), 0
     import segyio
 
     name = os.path.basename(layout.path)
@@ -295,8 +200,35 @@ def _read_samples(layout: SegyLayout, hdr: _Headers, idx: np.ndarray) -> np.ndar
     except RuntimeError as err:
         raise SegyReadError(f"{name}: segyio could not read the traces ({err}); the file may be damaged") from err
     if data.dtype == np.float64:
-        return data  # format 6 keeps its precision
-    return data.astype(np.float32, copy=False)
+        return data, 0  # format 6 keeps its precision
+    data = data.astype(np.float32, copy=False)
+    n_fixed = _fix_unnormalized_ibm(layout, hdr, idx, data) if layout.format_code == 1 else 0
+    return data, n_fixed
+
+
+def _fix_unnormalized_ibm(layout, hdr, idx, data) -> int:
+    """Re-decode unnormalised IBM floats, which segyio 1.9.14 decodes wrongly; return their count.
+
+    IBM System/360 single precision: value = (-1)^s * 0.F * 16^(e - 64),
+    with a 7-bit exponent e and a 24-bit fraction F [3]_.  Writers normally
+    normalise F (leading hex digit non-zero), but the format allows
+    otherwise; segyio's converter assumes normalisation and returns wrong
+    values (0x40080000 should be 0.03125, segyio gives 0.046875).  Only
+    those samples are recomputed here, with the formula above.
+    """
+    words = hdr.raw_samples(idx).reshape(len(idx), layout.n_samples, 4)
+    words = np.ascontiguousarray(words).view(">u4" if layout.byte_order == "big" else "<u4")[..., 0]
+    fraction = words & 0x00FFFFFF
+    bad = ((fraction & 0x00F00000) == 0) & (fraction != 0)
+    n_bad = int(bad.sum())
+    if n_bad:
+        w = words[bad].astype(np.int64)
+        sign = np.where(w >> 31, -1.0, 1.0)
+        exponent = ((w >> 24) & 0x7F) - 64
+        with np.errstate(over="ignore", under="ignore"):
+            value = sign * (w & 0x00FFFFFF) / float(1 << 24) * np.power(16.0, exponent)
+            data[bad] = value.astype(np.float32)
+    return n_bad
 
 
 def _mask_quality(data, name, label):
@@ -359,8 +291,13 @@ def _build(layout, hdr, idx, *, domain, z, dz, geo, chosen, trace_spacing_m, fal
     name = os.path.basename(layout.path)
     fallbacks = list(fallbacks)
     x, y, dist = _coordinates(layout, hdr, idx, chosen, trace_spacing_m, fallbacks)
-    data = _read_samples(layout, hdr, idx)
+    data, n_ibm = _read_samples(layout, hdr, idx)
     quality = _mask_quality(data, name, label)
+    notes = list(layout.notes)
+    if n_ibm:
+        notes.append(f"{n_ibm} unnormalised IBM float samples decoded with the IBM formula "
+                     "(segyio 1.9.14 decodes them wrongly)")
+        logger.info("%s: %s", name, notes[-1])
     cdp = hdr.field(chosen["cdp"], idx)
     il, xl = geo["inline"][idx], geo["crossline"][idx]
     three_d = geo["kind"] == "3d"
@@ -370,7 +307,7 @@ def _build(layout, hdr, idx, *, domain, z, dz, geo, chosen, trace_spacing_m, fal
         "text_header": layout.text_header,
         "source_path": layout.path,
         "fallbacks": fallbacks,
-        "notes": list(layout.notes),
+        "notes": notes,
         "segy_revision": f"{layout.revision[0]}.{layout.revision[1]}",
         "coordinates": coordinates,
         "header_bytes": dict(chosen),
@@ -393,15 +330,15 @@ def _prepare(path, domain, sample_interval, coordinates, header_bytes):
         raise GeometryError(f"{os.path.basename(os.fspath(path))}: domain must be one of {DOMAINS}, got {domain!r}")
     layout = sniff_segy(path)
     name = os.path.basename(layout.path)
-    chosen = _check_header_bytes(name, header_bytes, coordinates)
+    chosen = check_header_bytes(name, header_bytes, coordinates)
     fallbacks = []
     z, dz, source = _z_axis(layout, name, domain, sample_interval, fallbacks)
     if domain == "depth" and sample_interval is None:
         fallbacks.append(f"depth sample interval read as thousandths of a metre: {source} -> {dz:g} m")
     for fb in fallbacks:
         logger.info("%s: %s", name, fb)
-    hdr = _Headers(layout)
-    geo = _geometry(hdr, chosen)
+    hdr = TraceHeaders(layout)
+    geo = survey_geometry(hdr, chosen)
     return layout, name, chosen, z, dz, hdr, geo, fallbacks
 
 
@@ -472,7 +409,7 @@ def read_section(path, *, inline=None, crossline=None, domain="twt", sample_inte
     try:
         if inline is not None or crossline is not None:
             direction, number = ("inline", inline) if inline is not None else ("crossline", crossline)
-            idx = _line_indices(name, geo, direction, number)
+            idx = line_indices(name, geo, direction, number)
             label = f"{direction} {number}"
         else:
             if geo["kind"] == "3d":
@@ -524,48 +461,9 @@ def iter_sections(path, *, direction="inline", lines=None, domain="twt", sample_
             )
         numbers = geo[direction + "s"] if lines is None else list(lines)
         for number in numbers:
-            idx = _line_indices(name, geo, direction, int(number))
+            idx = line_indices(name, geo, direction, int(number))
             yield _build(layout, hdr, idx, domain=domain, z=z, dz=dz, geo=geo, chosen=chosen,
                          trace_spacing_m=trace_spacing_m, fallbacks=fallbacks,
                          label=f"{direction} {int(number)}", coordinates=coordinates)
     finally:
         hdr.close()
-
-
-def is_3d(path, *, header_bytes=None) -> bool:
-    """True when the file is a 3D post-stack volume (see module notes).
-
-    Parameters
-    ----------
-    path : str or os.PathLike
-    header_bytes : dict, optional
-        ``inline``/``crossline`` byte overrides.
-    """
-    layout = sniff_segy(path)
-    chosen = _check_header_bytes(os.path.basename(layout.path), header_bytes, "cdp")
-    hdr = _Headers(layout)
-    try:
-        return _geometry(hdr, chosen)["kind"] == "3d"
-    finally:
-        hdr.close()
-
-
-def line_numbers(path, *, direction="inline", header_bytes=None) -> list[int]:
-    """Inline (or crossline) numbers of a 3D volume, increasing.
-
-    Raises
-    ------
-    GeometryError
-        The file is not a 3D volume.
-    """
-    layout = sniff_segy(path)
-    name = os.path.basename(layout.path)
-    chosen = _check_header_bytes(name, header_bytes, "cdp")
-    hdr = _Headers(layout)
-    try:
-        geo = _geometry(hdr, chosen)
-    finally:
-        hdr.close()
-    if geo["kind"] != "3d":
-        raise GeometryError(f"{name}: not a 3D post-stack volume ({geo['kind']})")
-    return geo[direction + "s"].tolist()

@@ -29,6 +29,20 @@ def test_ibm_float_worked_value(tmp_path, write_segy):
     assert p2.read_bytes()[first_sample:first_sample + 4] == bytes.fromhex("C276A000")
 
 
+def test_unnormalized_ibm_floats(tmp_path, write_segy):
+    # IBM hex float value = (-1)^s * 0.F * 16^(e-64) (IBM System/360 Principles of Operation;
+    # from memory): 0x40080000 -> 0x080000 / 2^24 = 0.03125 (unnormalised), 0x41100000 -> 1.0,
+    # 0x41010000 -> 16 * 0x010000 / 2^24 = 0.0625 (unnormalised), 0xC0080000 -> -0.03125
+    path = write_segy(tmp_path / "unnorm.sgy", np.ones((2, 4)), fmt=1, headers={181: [0, 10], 71: 1})
+    raw = bytearray(path.read_bytes())
+    raw[3840:3856] = bytes.fromhex("40080000" "41100000" "41010000" "C0080000")
+    path.write_bytes(bytes(raw))
+    s = read_section(path)
+    np.testing.assert_array_equal(s.values[0], [0.03125, 1.0, 0.0625, -0.03125])
+    assert s.attrs["notes"] == ["3 unnormalised IBM float samples decoded with the IBM formula "
+                                "(segyio 1.9.14 decodes them wrongly)"]
+
+
 @pytest.mark.parametrize("scalar, expected_x", [
     (-100, [1234.56, 1234.81]),  # SEG-Y rev 1 bytes 71-72: negative divides
     (10, [1234560.0, 1234810.0]),  # positive multiplies
