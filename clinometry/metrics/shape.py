@@ -16,8 +16,12 @@ three models are
 * exponential: ``d = c - a exp(-x / L)``
 * Gaussian:    ``d = c - a exp(-x^2 / (2 s^2))``
 
-fitted with :func:`scipy.optimize.curve_fit` (bounded trust-region, with
-``x`` and ``d`` scaled to the foreset width and relief for conditioning).
+fitted with :func:`scipy.optimize.curve_fit` (bounded trust-region with
+analytic Jacobians, ``x`` and ``d`` scaled to the foreset width and relief
+for conditioning).  The curved models are linear in ``c`` and ``a`` once the
+scale is fixed, so the start values come from a coarse grid of scales with a
+linear least-squares solve at each (variable projection, Golub & Pereyra
+1973), which keeps the fit from stalling on a planar profile.
 The best model is the one with the lowest Akaike information criterion
 ``AIC = n ln(RSS / n) + 2 k`` (Akaike 1974), which penalises the extra
 parameter of the curved models so a straight slope is called planar; R^2 of
@@ -56,7 +60,45 @@ def _gaussian(x, c, a, sigma):
     return c - a * np.exp(-(x * x) / (2.0 * sigma * sigma))
 
 
+def _linear_jac(x, a, b):
+    return np.stack([np.ones_like(x), x], axis=-1)
+
+
+def _exponential_jac(x, c, a, length):
+    e = np.exp(-x / length)
+    return np.stack([np.ones_like(x), -e, -a * e * x / length**2], axis=-1)
+
+
+def _gaussian_jac(x, c, a, sigma):
+    g = np.exp(-(x * x) / (2.0 * sigma * sigma))
+    return np.stack([np.ones_like(x), -g, -a * g * x * x / sigma**3], axis=-1)
+
+
 _FUNCS = {"linear": _linear, "exponential": _exponential, "gaussian": _gaussian}
+_JACS = {"linear": _linear_jac, "exponential": _exponential_jac, "gaussian": _gaussian_jac}
+#: scales (in units of the fitted width) tried for the start of the curved fits
+_START_SCALES = np.logspace(-2.0, 2.5, 46)
+
+
+def _start(name, u, v):
+    """Start values: for fixed scale the curved models are linear in (c, a);
+    take the scale of a coarse grid with the least squares (variable projection)."""
+    if name == "linear":
+        b, a = np.polyfit(u, v, 1)
+        return [a, b]
+    sc = _START_SCALES[:, None]
+    basis = np.exp(-u / sc) if name == "exponential" else np.exp(-(u * u) / (2 * sc * sc))  # (n_scales, n)
+    # normal equations of v ~ c - a * basis, solved for every scale at once
+    n, sb, sbb = u.size, basis.sum(axis=1), (basis * basis).sum(axis=1)
+    sv, sbv = v.sum(), (basis * v).sum(axis=1)
+    det = n * sbb - sb * sb
+    ok = det > 1e-12 * n * sbb
+    det = np.where(ok, det, 1.0)
+    c = (sbb * sv - sb * sbv) / det
+    a = (sb * sv - n * sbv) / det
+    rss = np.where(ok, ((c[:, None] - a[:, None] * basis - v) ** 2).sum(axis=1), np.inf)
+    i = int(np.argmin(rss))
+    return [float(c[i]), float(a[i]), float(_START_SCALES[i])]
 
 
 def fit_profile_shape(distance_m, depth_m) -> dict:
@@ -90,6 +132,9 @@ def fit_profile_shape(distance_m, depth_m) -> dict:
        curvature. Journal of Sedimentary Research 70: 814-828.
     .. [2] Akaike, H. (1974). A new look at the statistical model
        identification. IEEE Transactions on Automatic Control 19: 716-723.
+    .. [3] Golub, G. H. & Pereyra, V. (1973). The differentiation of
+       pseudo-inverses and nonlinear least squares problems whose variables
+       separate. SIAM Journal on Numerical Analysis 10: 413-432.
 
     Examples
     --------
@@ -114,20 +159,21 @@ def fit_profile_shape(distance_m, depth_m) -> dict:
     ss_tot = float(np.sum((v - v.mean()) ** 2))
     if ss_tot <= 0:
         return {"profile_shape": None, "reason": "profile is flat between break and toe; no slope to fit"}
-    starts = {
-        "linear": ([0.0, 1.0], ([-np.inf, -np.inf], [np.inf, np.inf])),
-        "exponential": ([1.0, 1.0, 0.3], ([-np.inf, -np.inf, 1e-3], [np.inf, np.inf, 1e3])),
-        "gaussian": ([1.0, 1.0, 0.4], ([-np.inf, -np.inf, 1e-3], [np.inf, np.inf, 1e3])),
+    bounds = {
+        "linear": ([-np.inf, -np.inf], [np.inf, np.inf]),
+        "exponential": ([-np.inf, -np.inf, 1e-3], [np.inf, np.inf, 1e3]),
+        "gaussian": ([-np.inf, -np.inf, 1e-3], [np.inf, np.inf, 1e3]),
     }
     fits = {}
     # floor on the residual sum so that a perfect fit does not give log(0)
     rss_floor = n * (1e-12) ** 2
     for name, func in _FUNCS.items():
-        p0, bounds = starts[name]
         try:
+            p0 = _start(name, u, v)
             with warnings.catch_warnings():
                 warnings.simplefilter("ignore")  # OptimizeWarning on a singular covariance; RSS is what we use
-                popt, _ = curve_fit(func, u, v, p0=p0, bounds=bounds, maxfev=5000)
+                popt, _ = curve_fit(func, u, v, p0=p0, bounds=bounds[name], jac=_JACS[name],
+                                    method="trf", max_nfev=2000)
         except (RuntimeError, ValueError) as err:
             fits[name] = {"reason": f"{name} fit did not converge: {err}"}
             continue
