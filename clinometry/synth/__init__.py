@@ -10,9 +10,10 @@ Ricker wavelet), measure its true break, toe, slope and trajectory
 
 from .growth import GrowthParameters, Stratigraphy, grow, production_rate
 from .cube import make_cube, write_cube
-from .lines import make_line
+from .lines import grown_surfaces, make_line
 from .scenarios import SCENARIOS, Scenario, get_scenario
 from .seismic import SynthVelocity, ricker
+from .preview import plot_preview
 from .write import truth_path, write_line, write_segy
 
 __all__ = [
@@ -21,6 +22,8 @@ __all__ = [
     "grow",
     "production_rate",
     "make_line",
+    "grown_surfaces",
+    "plot_preview",
     "make_cube",
     "write_line",
     "write_cube",

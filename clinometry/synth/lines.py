@@ -26,7 +26,7 @@ from .scenarios import get_scenario
 from .seismic import SynthVelocity, bandlimited_noise, render, ricker
 from .truth import BASE_LENGTH_M, SMOOTHING_M, TRAJECTORY_FLAT_DEG, profile_margin, trajectory
 
-__all__ = ["make_line", "TRUTH_SCHEMA_VERSION", "line_geometry", "margins_truth"]
+__all__ = ["make_line", "grown_surfaces", "TRUTH_SCHEMA_VERSION", "line_geometry", "margins_truth"]
 
 logger = logging.getLogger(__name__)
 
@@ -130,6 +130,27 @@ def margins_truth(depths, *, sides, distance, x, y, to_z, family, n_steps):
             "trajectory": traj,
         })
     return out
+
+
+def grown_surfaces(scenario, *, trace_spacing_m=None):
+    """Depth of every stratal surface of a scenario, as laid out along its line.
+
+    Parameters
+    ----------
+    scenario : str or Scenario
+    trace_spacing_m : float, m, optional
+        As in :func:`make_line`.
+
+    Returns
+    -------
+    ndarray, shape (n_steps + 1, n_trace), m
+        Depth below the z origin, positive down; row 0 is the substrate top,
+        the last row the youngest surface (flipped like the line).
+    """
+    sc = get_scenario(scenario)
+    g = sc.growth if trace_spacing_m is None else dataclasses.replace(sc.growth, dx_m=float(trace_spacing_m))
+    depths = grow(g).depth_below_m(sc.datum_depth_m)
+    return depths[:, ::-1] if sc.flip else depths
 
 
 def make_line(scenario, *, snr=None, seed=0, peak_hz=None, velocity_m_s=None,
