@@ -91,3 +91,33 @@ def test_measure_attaches_uncertainty_and_settings(build_margin, planar):
     assert set(u) == set(KEYS)
     assert u["slope_max_deg"]["p10"] <= m.margins[0].values["slope_max_deg"] <= u["slope_max_deg"]["p90"]
     assert measure(picks, section, velocity=vel, uncertainty=False).margins[0].uncertainty == {}
+
+
+class _GradientScaledLinear(LinearVelocity):
+    """A model whose scaled() also scales the gradient: depth is not proportional to f."""
+
+    def scaled(self, factor):
+        return _GradientScaledLinear(self.v0_m_s * factor, self.k_per_s * factor)
+
+
+def test_model_that_does_not_scale_depth_linearly_is_drawn_one_by_one(build_margin, planar):
+    vel = _GradientScaledLinear(1800.0, 0.5)
+    picks, section = build_margin(planar(15.0, top_m=1500.0), velocity=vel)
+    g = margin_geometry(picks, picks.margins[0], section, vel)
+    settings = uncertainty_settings({"n_draws": 4000, "pick_sigma_samples": 0.0, "pick_sigma_traces": 0.0})
+    u = propagate(g, settings=settings, section=section, velocity=vel)
+    t_break = picks.horizon(0).z[40]
+    # the depth is monotone in f, so its P90 is the depth at the P90 of f = 1 + 1.2816 * 0.08
+    # (standard normal quantile, Abramowitz & Stegun 1964, Table 26.1; from memory)
+    f90 = 1 + 1.2816 * 0.08
+    assert u["break_depth_m"]["p90"] == pytest.approx(float(vel.scaled(f90).depth_m(t_break)), rel=0.005)
+    # and it differs from f * depth, which the vectorised path would have used
+    assert abs(u["break_depth_m"]["p90"] - f90 * 1500.0) > 20.0
+
+
+def test_flat_foreset_gives_shape_reason(build_margin):
+    from clinometry.metrics.shape import shape_metrics
+
+    picks, section = build_margin(lambda x: np.full(np.shape(x), 250.0))
+    g = margin_geometry(picks, picks.margins[0], section)
+    assert shape_metrics(g)["missing"]["profile_shape"] == "profile is flat between break and toe; no slope to fit"
