@@ -111,7 +111,7 @@ def _m_per_z(result, section):
     if ratios:
         return float(np.median(ratios))
     vel = result.get("velocity") or {}
-    v = vel.get("v_m_s")
+    v = vel.get("velocity_m_s", vel.get("v_m_s"))
     if v:
         return float(v) / 2000.0  # one-way metres per ms TWT: v/2 per s (common practice, no source)
     return None

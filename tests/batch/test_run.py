@@ -1,0 +1,109 @@
+"""Tests of run_batch: the real chain on small synthetic lines, a corrupt file among
+good ones, resume after a damaged output, identical outputs on 1 or 2 workers and
+on a Dask LocalCluster started by the test."""
+
+import csv
+import json
+import os
+import shutil
+
+import pytest
+
+from clinometry.batch import run_batch
+from clinometry.result import validate_result_dict
+
+from .conftest import BATCH_SCENARIOS
+
+
+def _read_csv(path):
+    with open(path, newline="", encoding="utf-8") as fh:
+        return list(csv.DictReader(fh))
+
+
+def _jsons(out):
+    return {n: json.loads((out / n).read_text()) for n in sorted(os.listdir(out)) if n.endswith(".json")}
+
+
+@pytest.fixture(scope="module")
+def reference_run(good_lines, tmp_path_factory):
+    """One serial run over the good lines, compared against by the other tests."""
+    out = tmp_path_factory.mktemp("ref")
+    summary = run_batch([good_lines], out, workers=1, plot=False, quiet=True, velocity=2500.0)
+    return out, summary
+
+
+def test_batch_writes_one_valid_json_per_line_and_rebuilds_margins_csv(reference_run):
+    out, summary = reference_run
+    assert (summary.n_tasks, summary.n_ok, summary.n_failed, summary.exit_code) == (2, 2, 0, 0)
+    docs = _jsons(out)
+    assert sorted(docs) == sorted(f"{n}.json" for n in BATCH_SCENARIOS)
+    for d in docs.values():
+        validate_result_dict(d)  # the results contract
+    rows = _read_csv(out / "margins.csv")
+    # one row per margin of every JSON, in task order (sorted file names)
+    expected = [(n, m["direction"], m["family"]) for n in sorted(BATCH_SCENARIOS)
+                for m in docs[f"{n}.json"]["margins"]]
+    assert [(r["stem"], r["direction"], r["family"]) for r in rows] == expected
+    for r in rows:
+        m = [m for m in docs[f"{r['stem']}.json"]["margins"] if m["direction"] == r["direction"]][0]
+        if m["slope_max_deg"] is not None:
+            assert float(r["slope_max_deg"]) == pytest.approx(m["slope_max_deg"], rel=1e-12)
+    assert _read_csv(out / "errors.csv") == []
+    for n in BATCH_SCENARIOS:
+        assert (out / f"{n}.horizons.csv").is_file() and not (out / f"{n}.png").exists()
+    assert (out / "index.html").is_file()
+    assert [n for n in os.listdir(out) if n.startswith(".")] == []  # no temporary files left
+
+
+def test_batch_corrupt_file_becomes_an_error_row_and_the_batch_goes_on(good_lines, corrupt_file, tmp_path,
+                                                                        reference_run):
+    out = tmp_path / "out"
+    summary = run_batch([good_lines, corrupt_file], out, workers=1, plot=False, quiet=True, velocity=2500.0)
+    assert summary.exit_code == 1
+    assert summary.n_ok == 2 and summary.n_failed + summary.n_problems == 1
+    errors = _read_csv(out / "errors.csv")
+    assert len(errors) == 1
+    assert errors[0]["error_type"] == "SegyReadError" and "corrupt.sgy" in errors[0]["message"]
+    # the good lines are unaffected by the bad one
+    assert (out / "margins.csv").read_text() == (reference_run[0] / "margins.csv").read_text()
+
+
+def test_batch_exit_code_2_when_nothing_could_run(corrupt_file, tmp_path):
+    summary = run_batch([corrupt_file, tmp_path / "missing.sgy"], tmp_path / "out", workers=1, plot=False,
+                        quiet=True)
+    assert summary.exit_code == 2 and summary.n_ok == 0
+    errors = _read_csv(tmp_path / "out" / "errors.csv")
+    # inputs that name nothing are listed first, then unreadable files
+    assert [e["error_type"] for e in errors] == ["FileNotFoundError", "SegyReadError"]
+
+
+def test_resume_skips_complete_lines_and_redoes_a_damaged_one(good_lines, reference_run, tmp_path):
+    out = tmp_path / "out"
+    shutil.copytree(reference_run[0], out)
+    damaged = out / f"{BATCH_SCENARIOS[0]}.json"
+    damaged.write_text(damaged.read_text()[:100])  # as if cut off by a crash without atomic writes
+    summary = run_batch([good_lines], out, workers=1, plot=False, quiet=True, resume=True, velocity=2500.0)
+    assert (summary.n_skipped, summary.n_ok, summary.exit_code) == (1, 1, 0)
+    assert _jsons(out) == _jsons(reference_run[0])
+    assert (out / "margins.csv").read_text() == (reference_run[0] / "margins.csv").read_text()
+
+
+def test_two_workers_give_the_same_files_as_one(good_lines, reference_run, tmp_path):
+    out = tmp_path / "out"
+    summary = run_batch([good_lines], out, workers=2, plot=False, quiet=True, velocity=2500.0)
+    assert summary.exit_code == 0
+    assert _jsons(out) == _jsons(reference_run[0])
+    assert (out / "margins.csv").read_text() == (reference_run[0] / "margins.csv").read_text()
+
+
+@pytest.mark.requires_dask
+def test_dask_local_cluster_gives_the_same_files_as_local(good_lines, reference_run, tmp_path):
+    distributed = pytest.importorskip("distributed")
+    with distributed.LocalCluster(n_workers=1, threads_per_worker=1, processes=False, host="127.0.0.1",
+                                  protocol="tcp://", dashboard_address=None) as cluster:
+        assert cluster.scheduler_address.startswith("tcp://127.0.0.1:")
+        summary = run_batch([good_lines], tmp_path / "out", scheduler=cluster.scheduler_address, plot=False,
+                            quiet=True, velocity=2500.0)
+    assert summary.exit_code == 0
+    assert _jsons(tmp_path / "out") == _jsons(reference_run[0])
+    assert (tmp_path / "out" / "margins.csv").read_text() == (reference_run[0] / "margins.csv").read_text()
