@@ -110,6 +110,12 @@ file's units (ms). Direction `+` means basinward towards increasing trace index.
 SEG-Y: rev 1, CDP numbers from 1001 (lines) at bytes 21, CDP X/Y at 181/185
 with coordinate scalar -100, inline/crossline at 189/193 (cube), delay 0 ms.
 
+Caution: these are idealised models. Accuracy measured on them is an upper
+bound for real data (real velocities, migration, noise and geology are harder).
+Nothing here, nor any clinometry result, replaces site-specific data, review by
+qualified professionals, or the local regulations and licensed practice that
+govern drilling and subsurface storage decisions.
+
 """
 
 

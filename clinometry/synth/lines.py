@@ -267,7 +267,7 @@ def make_line(scenario, *, snr=None, seed=0, peak_hz=None, velocity_m_s=None,
     margins = margins_truth(depths, sides=sides, distance=distance, x=x, y=y,
                             to_z=lambda d: float(to_z(d)), family=sc.family, n_steps=g.n_steps)
     cdp = sc.first_cdp + np.arange(n_tr)
-    attrs = {"sample_format": "ieee", "text_header": "", "source_path": "",
+    attrs = {"sample_format": "float32 (in memory, not yet written)", "text_header": "", "source_path": "",
              "dead_traces": dead, "synthetic_scenario": sc.name, "seed": int(seed)}
     section = make_section(amp, z=z_out, domain=domain, x=x, y=y, distance=distance, cdp=cdp,
                            attrs=attrs)
