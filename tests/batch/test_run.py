@@ -107,3 +107,32 @@ def test_dask_local_cluster_gives_the_same_files_as_local(good_lines, reference_
     assert summary.exit_code == 0
     assert _jsons(tmp_path / "out") == _jsons(reference_run[0])
     assert (tmp_path / "out" / "margins.csv").read_text() == (reference_run[0] / "margins.csv").read_text()
+
+
+def test_batch_over_a_3d_cube_gives_one_line_per_inline_and_a_map(tmp_path):
+    segyio = pytest.importorskip("segyio")
+    from clinometry.synth import make_cube, write_cube
+
+    cube, truth = make_cube(n_inlines=4, seed=1)
+    path, _ = write_cube(cube, truth, tmp_path / "cube.sgy")
+    out = tmp_path / "out"
+    summary = run_batch([path], out, workers=1, quiet=True, uncertainty=False, velocity=2500.0)
+    assert summary.exit_code == 0
+    first = int(cube["inline"].values[0])
+    assert [r["stem"] for r in summary.records] == [f"cube_il{first + i}" for i in range(4)]
+    rows = _read_csv(out / "margins.csv")
+    assert rows and {r["line"] for r in rows} <= {f"inline {first + i}" for i in range(4)}
+    # break x/y are the header coordinates of the break trace, read back with segyio
+    # (SEG-Y rev 1 bytes 181/185 CDP X/Y with the scalar at 71; segyio as independent reader)
+    with segyio.open(str(path), ignore_geometry=True) as f:
+        il = f.attributes(segyio.TraceField.INLINE_3D)[:]
+        cx = f.attributes(segyio.TraceField.CDP_X)[:] / 100.0  # scalar -100 as written
+        cy = f.attributes(segyio.TraceField.CDP_Y)[:] / 100.0
+    assert any(r["break_trace"] for r in rows)
+    for r in rows:
+        if r["break_trace"]:
+            idx = [i for i in range(il.size) if il[i] == int(r["line"].split()[1])][int(r["break_trace"])]
+            assert float(r["break_x"]) == pytest.approx(cx[idx], abs=0.01)
+            assert float(r["break_y"]) == pytest.approx(cy[idx], abs=0.01)
+    for name in ("map.png", "summary.png", "index.html", f"cube_il{first}.png"):
+        assert (out / name).read_bytes()[:4] == (b"\x89PNG" if name.endswith(".png") else b"<!DO")
