@@ -94,6 +94,15 @@ class TraceHeaders:
         dt = np.dtype(("<" if self.layout.byte_order == "little" else ">") + f"{kind}{width}")
         return np.ascontiguousarray(cols).view(dt).reshape(-1).astype(np.int64)
 
+    def sample_bytes(self, idx, k: int, bytes_per_sample: int) -> np.ndarray:
+        """Byte ``k`` of every sample of traces ``idx``, shape (len(idx), n_samples)."""
+        return np.asarray(self._mm[idx, TRACE_HEADER_BYTES + k :: bytes_per_sample])
+
+    def sample_words(self, trace_idx, sample_idx, bytes_per_sample: int) -> np.ndarray:
+        """Raw bytes of single samples (one per pair), shape (len(trace_idx), bytes_per_sample)."""
+        cols = TRACE_HEADER_BYTES + np.asarray(sample_idx)[:, None] * bytes_per_sample + np.arange(bytes_per_sample)
+        return np.asarray(self._mm[np.asarray(trace_idx)[:, None], cols])
+
     def raw_samples(self, idx) -> np.ndarray:
         return np.asarray(self._mm[idx, TRACE_HEADER_BYTES:])
 

@@ -79,6 +79,7 @@ _HEADER_INTERVAL_PER_UNIT = 1000.0
 DEFAULT_TRACE_SPACING_M = 25.0
 #: international foot in metres (exact by definition, common practice)
 _FOOT_M = 0.3048
+_IBM_CHECK_TRACES = 1024  # traces per block when checking IBM normalisation
 _COORDINATE_UNITS_ARCSEC = 2  # bytes 89-90, SEG-Y rev 1 [1]_
 _MEASUREMENT_FEET = 2  # binary bytes 3255-3256, SEG-Y rev 1 [1]_
 
@@ -216,31 +217,51 @@ def _fix_unnormalized_ibm(layout, hdr, idx, data) -> int:
     values (0x40080000 should be 0.03125, segyio gives 0.046875).  Only
     those samples are recomputed here, with the formula above.
     """
-    words = hdr.raw_samples(idx).reshape(len(idx), layout.n_samples, 4)
-    words = np.ascontiguousarray(words).view(">u4" if layout.byte_order == "big" else "<u4")[..., 0]
-    fraction = words & 0x00FFFFFF
-    bad = ((fraction & 0x00F00000) == 0) & (fraction != 0)
-    n_bad = int(bad.sum())
-    if n_bad:
-        w = words[bad].astype(np.int64)
+    big = layout.byte_order == "big"
+    hi = 1 if big else 2  # byte holding the fraction's leading hex digit
+    n_bad = 0
+    for start in range(0, len(idx), _IBM_CHECK_TRACES):  # in blocks: bounded extra memory
+        rows_idx = idx[start:start + _IBM_CHECK_TRACES]
+        # cheap first pass on one byte per sample: leading hex digit of the fraction is 0
+        lead = hdr.sample_bytes(rows_idx, hi, 4) < 0x10
+        if not lead.any():
+            continue
+        r, c = np.nonzero(lead)
+        raw = hdr.sample_words(rows_idx[r], c, 4)  # (k, 4) bytes of the candidates only
+        w = (raw.astype(np.int64) << np.array([24, 16, 8, 0] if big else [0, 8, 16, 24])).sum(axis=1)
+        bad = (w & 0x00FFFFFF) != 0  # true zeros are normalised by convention
+        if not bad.any():
+            continue
+        w, r, c = w[bad], r[bad], c[bad]
+        n_bad += int(w.size)
         sign = np.where(w >> 31, -1.0, 1.0)
         exponent = ((w >> 24) & 0x7F) - 64
         with np.errstate(over="ignore", under="ignore"):
             value = sign * (w & 0x00FFFFFF) / float(1 << 24) * np.power(16.0, exponent)
-            data[bad] = value.astype(np.float32)
+        data[start + r, c] = value.astype(np.float32)
     return n_bad
 
 
 def _mask_quality(data, name, label):
+    """Set NaN/inf to 0, list those traces and the dead ones; warn once.
+
+    One pass over the data: a row sum is non-finite when the row holds NaN or
+    inf (or overflows), and 0 when the row is dead (or cancels out); only
+    those candidate rows are examined sample by sample.
+    """
     info = {"n_nonfinite": 0, "nonfinite_traces": [], "dead_traces": []}
-    if np.issubdtype(data.dtype, np.floating):
-        bad = ~np.isfinite(data)
-        n_bad = int(bad.sum())
-        if n_bad:
-            info["n_nonfinite"] = n_bad
-            info["nonfinite_traces"] = np.flatnonzero(bad.any(axis=1)).tolist()
-            data[bad] = 0
-    info["dead_traces"] = np.flatnonzero(~np.any(data != 0, axis=1)).tolist()
+    with np.errstate(over="ignore", invalid="ignore"):
+        row_sum = data.sum(axis=1, dtype=np.float64)
+    nonfinite_rows = []
+    for r in np.flatnonzero(~np.isfinite(row_sum)):
+        bad = ~np.isfinite(data[r])
+        if bad.any():
+            info["n_nonfinite"] += int(bad.sum())
+            nonfinite_rows.append(int(r))
+            data[r, bad] = 0
+            row_sum[r] = 0.0 if not np.any(data[r] != 0) else np.nan
+    info["nonfinite_traces"] = nonfinite_rows
+    info["dead_traces"] = [int(r) for r in np.flatnonzero(row_sum == 0) if not np.any(data[r] != 0)]
     msgs = []
     if info["n_nonfinite"]:
         tr = info["nonfinite_traces"]
