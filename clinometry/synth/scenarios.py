@@ -118,11 +118,12 @@ SCENARIOS = {
             n_samples=260),
         Scenario(
             "rising_shelf",
-            "rimmed shelf under fast subsidence: strongly ascending shelf-break trajectory; "
-            "linear velocity law",
+            "rimmed shelf under fast subsidence and 5 m, 100 kyr eustatic cycles: "
+            "strongly ascending shelf-break trajectory; linear velocity law",
             "rimmed_shelf", "ascending",
             _G(length_m=5000.0, dx_m=12.5, n_steps=40, gmax_m_per_kyr=1.2,
                subsidence_m_per_kyr=0.4, stable_slope_deg=22.0,
+               eustasy_amplitude_m=5.0, eustasy_period_kyr=100.0,
                substrate_profile=((0.0, 5.0), (0.25, 20.0), (0.35, 350.0), (1.0, 370.0))),
             velocity_m_s=2000.0, velocity_k_per_s=0.6, n_samples=340),
         Scenario(

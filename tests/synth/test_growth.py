@@ -7,7 +7,7 @@ import pytest
 
 from clinometry.errors import GeometryError
 from clinometry.synth import SCENARIOS, GrowthParameters, grow, production_rate
-from clinometry.synth.growth import FACIES
+from clinometry.synth.growth import FACIES, sea_level_m
 from clinometry.synth.truth import profile_margin
 
 LAW = dict(gmax_m_per_kyr=1.0, surface_light=2000.0, saturating_light=250.0, extinction_per_m=0.1)
@@ -111,3 +111,11 @@ def test_growth_parameters_refuse_bad_values():
         GrowthParameters(stable_slope_deg=95.0)
     with pytest.raises(GeometryError, match="dx_m"):
         dataclasses.replace(GrowthParameters(), dx_m=0.0)
+
+
+def test_sea_level_is_sinusoid_plus_trend():
+    # eustasy A sin(2 pi t / P + phase) + trend t (definition of the model)
+    g = GrowthParameters(eustasy_amplitude_m=5.0, eustasy_period_kyr=100.0, eustasy_phase_deg=90.0,
+                         eustasy_trend_m_per_kyr=-0.1)
+    np.testing.assert_allclose(sea_level_m([0.0, 25.0, 50.0, 100.0], g), [5.0, 0.0 - 2.5, -5.0 - 5.0, 5.0 - 10.0],
+                               atol=1e-12)
