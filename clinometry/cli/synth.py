@@ -28,20 +28,21 @@ def configure(parser):
     parser.add_argument("--list", action="store_true", help="list the scenarios and exit")
     parser.add_argument("--scenario", metavar="NAME", help=f"scenario name (see --list; '{CUBE_SCENARIO}' for the 3D cube)")
     parser.add_argument("--out", metavar="FILE.sgy", help="output SEG-Y path; the truth goes to <stem>.truth.json")
-    parser.add_argument("--snr", type=float, help="signal-to-noise ratio, RMS signal / RMS noise (default: the scenario's)")
+    parser.add_argument("--snr", type=float, metavar="S", help="signal-to-noise ratio, RMS signal / RMS noise (default: the scenario's)")
     parser.add_argument("--no-noise", action="store_true", help="write the noise-free section")
-    parser.add_argument("--seed", type=int, default=0, help="random seed for impedance variation and noise (default 0)")
-    parser.add_argument("--wavelet-hz", type=float, help="Ricker peak frequency, Hz (default: the scenario's, 20-35 Hz)")
-    parser.add_argument("--velocity", type=float, help="velocity for depth -> time, m/s (default: the scenario's)")
-    parser.add_argument("--velocity-gradient", type=float, help="velocity increase with depth k in v = v0 + k z, 1/s")
+    parser.add_argument("--seed", type=int, default=0, metavar="N", help="random seed for impedance variation and noise (default 0)")
+    parser.add_argument("--wavelet-hz", type=float, metavar="HZ", help="Ricker peak frequency, Hz (default: the scenario's, 20-35 Hz)")
+    parser.add_argument("--velocity", type=float, metavar="M_PER_S", help="velocity for depth -> time, m/s (default: the scenario's)")
+    parser.add_argument("--velocity-gradient", type=float, metavar="PER_S", help="velocity increase with depth k in v = v0 + k z, 1/s")
     parser.add_argument("--domain", choices=("twt", "depth"), default="twt", help="z axis: two-way time (ms) or depth (m)")
     parser.add_argument("--format", choices=("ibm", "ieee"), default="ieee", help="SEG-Y sample format (default ieee)")
-    parser.add_argument("--sample-interval", type=float, help="sample interval, ms (twt) or m (depth)")
-    parser.add_argument("--samples", type=int, help="number of samples per trace")
-    parser.add_argument("--trace-spacing", type=float, help="trace spacing, m (regrows the model on that grid)")
-    parser.add_argument("--azimuth", type=float, help="line azimuth, degrees clockwise from grid north")
+    parser.add_argument("--sample-interval", type=float, metavar="MS_OR_M", help="sample interval, ms (twt) or m (depth)")
+    parser.add_argument("--samples", type=int, metavar="N", help="number of samples per trace")
+    parser.add_argument("--trace-spacing", type=float, metavar="M", help="trace spacing, m (regrows the model on that grid)")
+    parser.add_argument("--delay", type=float, metavar="MS_OR_M", help="time (ms) or depth (m) of the first sample, a whole number (default 0)")
+    parser.add_argument("--azimuth", type=float, metavar="DEG", help="line azimuth, degrees clockwise from grid north")
     parser.add_argument("--reverse-polarity", action="store_true", help="flip the sign (SEG reverse polarity)")
-    parser.add_argument("--gain-drift", type=float, default=0.0, help="linear gain drift along the line, fraction (e.g. 0.5)")
+    parser.add_argument("--gain-drift", type=float, default=0.0, metavar="FRACTION", help="linear gain drift along the line, fraction (e.g. 0.5)")
     parser.add_argument("--dead-traces", metavar="I,J,...", default="", help="comma-separated trace indices set to zero")
 
 
@@ -84,7 +85,7 @@ def run(args) -> int:
         velocity_m_s=args.velocity, velocity_k_per_s=args.velocity_gradient, domain=args.domain,
         dt_ms=args.sample_interval if args.domain == "twt" else None,
         dz_m=args.sample_interval if args.domain == "depth" else None,
-        n_samples=args.samples, trace_spacing_m=args.trace_spacing, azimuth_deg=args.azimuth,
+        n_samples=args.samples, delay_ms=args.delay, trace_spacing_m=args.trace_spacing, azimuth_deg=args.azimuth,
         polarity_reversed=args.reverse_polarity, gain_drift_fraction=args.gain_drift,
         dead_traces=dead, noise=not args.no_noise)
     sgy, js = write_line(sec, truth, args.out, sample_format=args.format)

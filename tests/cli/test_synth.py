@@ -19,7 +19,7 @@ def test_synth_list_shows_every_scenario(capsys):
 def test_synth_writes_line_and_truth(tmp_path, capsys):
     out = tmp_path / "ramp.sgy"
     rc = main(["synth", "--scenario", "gentle_ramp", "--out", str(out), "--snr", "3", "--seed", "4",
-               "--wavelet-hz", "25", "--velocity", "2200", "--format", "ibm"])
+               "--wavelet-hz", "25", "--velocity", "2200", "--format", "ibm", "--delay", "40"])
     assert rc == 0
     stdout = capsys.readouterr().out
     assert f"wrote {out}" in stdout and "ramp.truth.json" in stdout
@@ -29,7 +29,7 @@ def test_synth_writes_line_and_truth(tmp_path, capsys):
     with segyio.open(out, ignore_geometry=True) as f:
         assert f.bin[segyio.BinField.Format] == 1  # IBM float, SEG-Y rev 1 table 1
         assert f.tracecount == truth["n_traces"]
-        np.testing.assert_allclose(f.samples[:2], [0.0, 2.0])
+        np.testing.assert_allclose(f.samples[:2], [40.0, 42.0])  # delay 40 ms, dt 2 ms
     m = truth["margins"][0]
     # constant velocity: z = 2 depth / v (common practice, no source)
     np.testing.assert_allclose(m["break"]["z"], 2000.0 * m["break"]["depth_m"] / 2200.0)
