@@ -17,10 +17,10 @@ Method
    are recomputed with the IBM formula [3]_ and counted in ``attrs["notes"]``.
    All other samples are segyio's.
 4. 3D geometry is worked out from the inline/crossline header fields
-   (default bytes 189/193): a file is 3D when it has at least two inlines,
-   two crosslines and no (inline, crossline) pair twice.  Missing traces
-   are allowed (the line just has gaps).  Lines are read one at a time, so
-   the cube is never loaded.
+   (default bytes 189/193; see :mod:`clinometry.io.geometry` for the rule).
+   Missing traces are allowed (the line just has gaps).  Lines are read one
+   at a time, so the cube is never loaded: the extra memory of a line read is
+   the line itself plus a few bytes of header per trace of the file.
 
 Dead traces and non-finite samples
 ----------------------------------
@@ -416,8 +416,11 @@ def read_section(path, *, inline=None, crossline=None, domain="twt", sample_inte
 
     Notes
     -----
-    z starts at the delay recording time (trace bytes 109-110) scaled by the
-    time scalar (bytes 215-216) when that is nonzero [1]_.
+    z starts at the delay recording time of the first trace (bytes 109-110),
+    scaled by the time scalar (bytes 215-216) in files of revision 1 or later
+    [1]_.  Coordinates are scaled by bytes 71-72 (negative divides, positive
+    multiplies, 0 means 1) and converted from feet when the binary header
+    says feet (bytes 3255-3256 = 2); both facts are recorded in attrs.
 
     References
     ----------

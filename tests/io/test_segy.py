@@ -182,3 +182,31 @@ def test_inline_read_does_not_load_the_cube(tmp_path, write_raw_cube):
     np.testing.assert_allclose(s.isel(z=0).values, 130000 + np.arange(200, 260))
     np.testing.assert_allclose(s.distance.values, 25.0 * np.arange(n_xl))
     assert peak < 0.25 * cube_bytes, f"peak {peak} bytes vs cube {cube_bytes} bytes"
+
+
+def test_feet_are_converted_and_arc_seconds_fall_back(tmp_path, write_segy):
+    # SEG-Y rev 1: binary bytes 3255-3256 = 2 means feet; trace bytes 89-90 = 2 means arc seconds.
+    # International foot = 0.3048 m exactly (common practice, no source)
+    path = write_segy(tmp_path / "feet.sgy", np.ones((3, 4)), headers={71: 1, 181: [0, 100, 200], 185: 0},
+                      binary={3255: 2})
+    s = read_section(path)
+    np.testing.assert_allclose(s.x.values, [0.0, 30.48, 60.96])
+    assert any("feet" in f for f in s.attrs["fallbacks"])
+    path = write_segy(tmp_path / "arcsec.sgy", np.ones((3, 4)), headers={71: 1, 89: 2, 181: [0, 100, 200], 185: 0})
+    with pytest.warns(FallbackWarning, match=r"arcsec\.sgy: trace coordinates are in arc seconds"):
+        s = read_section(path)
+    np.testing.assert_allclose(s.distance.values, [0, 25, 50])
+
+
+def test_option_errors_name_the_file(tmp_path, write_segy):
+    path = write_segy(tmp_path / "opts.sgy", np.ones((3, 4)), headers={71: 1, 181: [0, 1, 2]})
+    with pytest.raises(GeometryError, match=r"opts\.sgy: domain must be one of"):
+        read_section(path, domain="frequency")
+    with pytest.raises(GeometryError, match=r"opts\.sgy: coordinates='receiver' is not one of"):
+        read_section(path, coordinates="receiver")
+    with pytest.raises(GeometryError, match=r"opts\.sgy: header_bytes key 'offset' is not one of"):
+        read_section(path, header_bytes={"offset": 37})
+    with pytest.raises(GeometryError, match=r"opts\.sgy: not a 3D post-stack volume \(2d\)"):
+        next(iter_sections(path))
+    with pytest.raises(GeometryError, match=r"opts\.sgy: inline=3 asked for, but the file is not a 3D"):
+        read_section(path, inline=3)
