@@ -189,3 +189,84 @@ def test_families_are_the_three_of_the_trade():
     assert set(FAMILIES) == {"ramp", "rimmed_shelf", "steep_margin"}
     assert all(k in POINT_KEYS for k in ("trace", "distance_m", "depth_m"))
     assert math.isclose(_hand_result().to_dict()["margins"][0]["break"]["distance_m"], 50.0)
+
+
+# --------------------------------------------------------------------------
+# The contract as written by `clinometry analyze` for a synthetic line.
+
+#: keys the contract promises and never renames (issue 6, "The results contract")
+CONTRACT_TOP = ("schema_version", "source", "velocity", "margins")
+CONTRACT_SOURCE = ("path", "n_traces", "n_samples", "domain")
+CONTRACT_MARGIN = ("direction", "family", "subtype", "confidence", "reasons", "platform_top", "break", "toe",
+                   "relief_m", "slope_max_deg", "slope_mean_deg", "clinoforms", "trajectory")
+CONTRACT_POINT = ("trace", "distance_m", "depth_m", "x", "y", "z")
+
+
+def test_required_key_tables_keep_the_contract_names():
+    assert set(CONTRACT_SOURCE) <= set(REQUIRED_SOURCE_KEYS)
+    assert set(CONTRACT_MARGIN) <= set(REQUIRED_MARGIN_KEYS)
+    assert tuple(POINT_KEYS) == CONTRACT_POINT
+
+
+@pytest.fixture(scope="module")
+def analyzed_json(synthetic_line_file, tmp_path_factory):
+    from clinometry.cli import main
+
+    path, truth = synthetic_line_file
+    out = tmp_path_factory.mktemp("contract")
+    code = main(["analyze", str(path), "--velocity", str(truth["velocity_m_s"]), "--no-plot", "--out", str(out)])
+    assert code == 0
+    text = (out / f"{path.stem}.json").read_text()
+    return json.loads(text, parse_constant=lambda c: pytest.fail(f"non-standard JSON constant {c}")), truth, path
+
+
+def _is_num(v):
+    return isinstance(v, (int, float)) and not isinstance(v, bool)
+
+
+def test_contract_json_written_by_cli_has_every_key_and_type(analyzed_json):
+    d, truth, path = analyzed_json
+    validate_result_dict(d)
+    for k in CONTRACT_TOP:
+        assert k in d
+    assert d["schema_version"] == 1
+    src = d["source"]
+    assert src["path"] == str(path)
+    assert (src["n_traces"], src["n_samples"], src["domain"]) == (truth["n_traces"], truth["n_samples"], "twt")
+    assert d["velocity"]["model"] == "constant"
+    assert d["margins"], "the synthetic shelf has a margin"
+    for m in d["margins"]:
+        for k in CONTRACT_MARGIN:
+            assert k in m, k
+        assert m["direction"] in ("+", "-")
+        assert m["family"] in FAMILIES
+        assert m["subtype"] is None or isinstance(m["subtype"], str)
+        assert _is_num(m["confidence"]) and 0.0 <= m["confidence"] <= 1.0
+        assert m["reasons"] and all(isinstance(r, str) for r in m["reasons"])
+        assert isinstance(m["platform_top"], dict)
+        for key in ("break", "toe"):
+            assert set(CONTRACT_POINT) <= set(m[key])
+            assert isinstance(m[key]["trace"], int)
+            for k in CONTRACT_POINT[1:]:
+                assert _is_num(m[key][k]), (key, k)
+        for k in ("relief_m", "slope_max_deg", "slope_mean_deg"):
+            assert _is_num(m[k]), k
+            # uncertainty was on: P10 <= P50 <= P90 where computed
+            if k in m["uncertainty"]:
+                p = m["uncertainty"][k]
+                assert p["p10"] <= p["p50"] <= p["p90"]
+        assert isinstance(m["clinoforms"], list) and m["clinoforms"]
+        for c in m["clinoforms"]:
+            assert {"break", "toe", "slope_max_deg"} <= set(c)
+        t = m["trajectory"]
+        assert t is None or (t["class"] in ("ascending", "flat", "descending") and "angle_deg" in t)
+
+
+def test_contract_json_matches_truth_direction_and_rereads(analyzed_json):
+    d, truth, _ = analyzed_json
+    (m,) = d["margins"]
+    (t,) = truth["margins"]
+    assert m["direction"] == t["direction"]
+    # break within a few hundred metres of the truth (pick tolerance: common practice, no source)
+    assert abs(m["break"]["distance_m"] - t["break"]["distance_m"]) <= 300.0
+    assert Result.from_dict(d).to_dict() == d
