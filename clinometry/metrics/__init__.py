@@ -35,7 +35,7 @@ from ..errors import ClinometryError, PluginError
 from ..section import check_section, section_name
 from .geometry import MarginGeometry, SurfaceGeometry, margin_geometry
 from .records import POINT_KEYS, MarginMetrics, Metrics
-from .slope import FLANK_LENGTH_TRACES, base_length_m_for
+from .slope import FLANK_LENGTH_TRACES, local_length_m
 from .uncertainty import UNCERTAINTY_DEFAULTS, propagate, uncertainty_settings
 
 __all__ = [
@@ -159,7 +159,7 @@ def measure_margin(geometry: MarginGeometry, *, plugins: dict, options: dict | N
         if k in values and values[k] is not None:
             del missing[k]
     flank = (options.get("slope", {}).get("flank_length_m")
-             or FLANK_LENGTH_TRACES * geometry.trace_spacing_m) + base_length_m_for(geometry, base_length_m)
+             or FLANK_LENGTH_TRACES * geometry.trace_spacing_m) + local_length_m(geometry)
     unc = {}
     if settings:
         unc = propagate(geometry, settings=settings, section=section, velocity=velocity, base_length_m=base_length_m)

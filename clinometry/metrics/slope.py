@@ -15,9 +15,11 @@ slope_max_deg
     The steepest *secant* slope over a horizontal base of ``base_length_m``
     between break and toe.  The base is tied to the data: by default the
     longer of :data:`BASE_LENGTH_TRACES` trace spacings and the length over
-    which one depth sample is a slope of :data:`SLOPE_QUANTUM_DEG` (about
-    140 m for 2.5 m samples), so a one-sample step in a pick cannot become a
-    steep slope, while a foreset a few hundred metres wide is still resolved.  Where break and toe
+    which one depth sample is :data:`SLOPE_PRECISION_FRACTION` (10 %) of the
+    mean foreset gradient, so the vertical pick error changes the slope by
+    at most about a tenth of itself: ~70 m for a 20 deg foreset and ~2 km
+    for a 0.8 deg ramp at 2.5 m samples.  A margin narrower than the base
+    is measured by its break-to-toe secant (max = mean).  Where break and toe
     are closer than one base, it is the break-to-toe secant (= mean slope).
     When break or toe is missing, the window runs to the end of the profile
     and ``slope_window`` says so: the steepest part of a margin is a real
@@ -25,9 +27,9 @@ slope_max_deg
 topset_gradient_deg, bottomset_gradient_deg
     Least-squares gradient of depth against basinward distance over
     ``flank_length_m`` landward of the break (platform top) and basinward of
-    the toe (basin floor), leaving out one base length next to the break /
-    toe so the rollover itself does not tilt the fit; signed, positive when
-    deepening basinward.
+    the toe (basin floor), leaving out one local length
+    (:func:`local_length_m`) next to the break / toe so the rollover itself
+    does not tilt the fit; signed, positive when deepening basinward.
 break_curvature_per_km, toe_curvature_per_km
     Curvature ``kappa = d'' / (1 + d'^2)^(3/2)`` of a quadratic fitted to the
     profile within ``curvature_window_m`` of the break / toe, per km;
@@ -50,6 +52,7 @@ import numpy as np
 
 __all__ = [
     "BASE_LENGTH_TRACES",
+    "SLOPE_PRECISION_FRACTION",
     "SLOPE_QUANTUM_DEG",
     "FLANK_LENGTH_TRACES",
     "CURVATURE_WINDOW_BASES",
@@ -57,6 +60,7 @@ __all__ = [
     "grid_surface",
     "secant_slope_max_deg",
     "base_length_m_for",
+    "local_length_m",
 ]
 
 logger = logging.getLogger(__name__)
@@ -65,13 +69,18 @@ logger = logging.getLogger(__name__)
 #: practice, no source: long enough that one depth sample over the base is
 #: a few degrees at most, short enough to resolve a foreset of ~10 traces)
 BASE_LENGTH_TRACES = 4
-#: one depth sample over the default base changes the slope by at most this,
-#: degrees (chosen here; common practice, no source: picks are quantised to
-#: one sample, so a finer base reports sampling steps as slope)
+#: one depth sample over the default base is at most this fraction of the
+#: mean foreset gradient (chosen here; common practice, no source: picks
+#: carry about one sample of vertical error, so a shorter base reports pick
+#: wiggles as slope -- a 0.8 deg ramp needs a base of ~2 km, a 20 deg
+#: foreset ~70 m at 2.5 m samples)
+SLOPE_PRECISION_FRACTION = 0.1
+#: without a mean slope: one depth sample over the base is this slope, degrees
+#: (chosen here)
 SLOPE_QUANTUM_DEG = 1.0
 #: length of the topset / bottomset gradient fit, in trace spacings (chosen here)
 FLANK_LENGTH_TRACES = 20
-#: half-width of the curvature fit window, in base lengths (chosen here)
+#: half-width of the curvature fit window, in local lengths (chosen here)
 CURVATURE_WINDOW_BASES = 2.0
 #: fewest points for a gradient fit (3) and a curvature fit (5): one more
 #: than the parameters of the polynomial (common practice, no source)
@@ -79,18 +88,57 @@ _MIN_GRADIENT_POINTS = 3
 _MIN_CURVATURE_POINTS = 5
 
 
-def base_length_m_for(geometry, base_length_m=None) -> float:
+def _mean_gradient(surface):
+    """tan of the break-to-toe mean slope of a surface, or None."""
+    brk, toe = surface.shelf_break, surface.toe
+    if not (brk and toe) or toe["basinward_m"] <= brk["basinward_m"]:
+        return None
+    g = (toe["depth_m"] - brk["depth_m"]) / (toe["basinward_m"] - brk["basinward_m"])
+    return g if g > 0 else None
+
+
+def local_length_m(geometry) -> float:
+    """Length scale of the local fits next to break and toe, m.
+
+    The longer of :data:`BASE_LENGTH_TRACES` trace spacings and the length
+    over which one depth sample is a slope of :data:`SLOPE_QUANTUM_DEG`.
+    Used to keep the rollover out of the flank fits and as the unit of the
+    curvature window; independent of the slope itself.
+    """
+    vertical = geometry.depth_sample_m / np.tan(np.radians(SLOPE_QUANTUM_DEG))
+    return float(max(BASE_LENGTH_TRACES * geometry.trace_spacing_m, vertical))
+
+
+def base_length_m_for(geometry, base_length_m=None, *, surface=None) -> float:
     """The base length of the max-slope secant, m.
 
     Given, or the longer of :data:`BASE_LENGTH_TRACES` trace spacings and
-    the length over which one depth sample is a slope of
-    :data:`SLOPE_QUANTUM_DEG` (``depth_sample_m / tan(SLOPE_QUANTUM_DEG)``).
+    the length over which one depth sample is :data:`SLOPE_PRECISION_FRACTION`
+    of the surface's mean break-to-toe gradient
+    (``depth_sample_m / (SLOPE_PRECISION_FRACTION * tan(slope_mean))``).
+    Without a mean slope (break or toe missing), one depth sample over the
+    base is a slope of :data:`SLOPE_QUANTUM_DEG`.
+
+    Parameters
+    ----------
+    geometry : MarginGeometry
+    base_length_m : float, m, optional
+        Use this instead (must be > 0).
+    surface : SurfaceGeometry, optional
+        Default the margin profile.
+
+    Returns
+    -------
+    float, m
     """
     if base_length_m is not None:
         if not np.isfinite(base_length_m) or base_length_m <= 0:
             raise ValueError(f"{geometry.name}: base_length_m must be > 0, got {base_length_m!r}")
         return float(base_length_m)
-    vertical = geometry.depth_sample_m / np.tan(np.radians(SLOPE_QUANTUM_DEG))
+    g = _mean_gradient(surface if surface is not None else geometry.profile)
+    if g is None:
+        return local_length_m(geometry)
+    vertical = geometry.depth_sample_m / (SLOPE_PRECISION_FRACTION * g)
     return float(max(BASE_LENGTH_TRACES * geometry.trace_spacing_m, vertical))
 
 
@@ -205,9 +253,11 @@ def _window(surface, lo, hi):
     return surface.basinward_m[m], surface.depth_m[m]
 
 
-def _foreset(geometry, surface, base_m, label):
+def _foreset(geometry, surface, base_length_m, label):
     """slope max / mean, relief, width of one surface; dict of values and missing reasons."""
     values, missing = {}, {}
+    base_m = base_length_m_for(geometry, base_length_m, surface=surface)
+    values["slope_base_length_m"] = base_m
     brk, toe = surface.shelf_break, surface.toe
     xs, ds = grid_surface(surface, geometry.trace_spacing_m / 2.0)
     lo = brk["basinward_m"] if brk else float(surface.basinward_m[0])
@@ -258,7 +308,7 @@ def slope_metrics(
         :data:`FLANK_LENGTH_TRACES` trace spacings.
     curvature_window_m : float, m, optional
         Half-width of the curvature fit around break and toe; default
-        :data:`CURVATURE_WINDOW_BASES` base lengths.
+        :data:`CURVATURE_WINDOW_BASES` local lengths (:func:`local_length_m`).
 
     Returns
     -------
@@ -280,12 +330,11 @@ def slope_metrics(
     .. [1] Kreyszig, E. (2011). Advanced Engineering Mathematics, 10th ed.,
        Wiley (curvature of a plane curve; from memory).
     """
-    base = base_length_m_for(geometry, base_length_m)
+    base = local_length_m(geometry)
     flank = float(flank_length_m) if flank_length_m is not None else FLANK_LENGTH_TRACES * geometry.trace_spacing_m
     cwin = float(curvature_window_m) if curvature_window_m is not None else CURVATURE_WINDOW_BASES * base
     prof = geometry.profile
-    values, missing, window = _foreset(geometry, prof, base, "margin profile")
-    values["slope_base_length_m"] = base
+    values, missing, window = _foreset(geometry, prof, base_length_m, "margin profile")
     values["slope_window"] = window
     brk, toe = prof.shelf_break, prof.toe
     if brk:
@@ -333,7 +382,7 @@ def slope_metrics(
     clinoforms = []
     heights = []
     for c in geometry.clinoforms:
-        cv, cm, cwin_name = _foreset(geometry, c, base, f"clinoform {c.horizon_id}")
+        cv, cm, cwin_name = _foreset(geometry, c, base_length_m, f"clinoform {c.horizon_id}")
         entry = {
             "horizon_id": c.horizon_id,
             "break": geometry.pick_point(c.shelf_break),

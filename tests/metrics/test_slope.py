@@ -28,12 +28,19 @@ def test_planar_10deg_foreset_depth_section(build_margin, planar):
     assert v["slope_window"] == "break_to_toe"
 
 
-@pytest.mark.parametrize("dz,expected", [(4.0, 4.0 / np.tan(np.radians(1.0))), (0.5, 4 * 25.0)])
+@pytest.mark.parametrize("dz,expected", [(4.0, 4.0 / (0.1 * np.tan(np.radians(10.0)))), (0.5, 4 * 25.0)])
 def test_default_base_length_tied_to_sampling(build_margin, planar, dz, expected):
     # the longer of 4 trace spacings and the length over which one depth sample
-    # is a 1 deg slope: dz / tan(1 deg) (trigonometry, common practice, no source)
+    # is 10 % of the mean gradient: dz / (0.1 tan 10 deg) (trigonometry, common practice, no source)
     v, _ = _slope(*build_margin(planar(10.0), dz=dz))
     assert v["slope_base_length_m"] == pytest.approx(expected)
+    assert v["slope_max_deg"] == pytest.approx(10.0)
+
+
+def test_default_base_length_without_mean_slope(build_margin, planar):
+    # no toe: one depth sample over the base is a 1 deg slope: 4 / tan(1 deg) (trigonometry)
+    v, _ = _slope(*build_margin(planar(10.0), dz=4.0, toe_trace=None))
+    assert v["slope_base_length_m"] == pytest.approx(4.0 / np.tan(np.radians(1.0)))
 
 
 @pytest.mark.parametrize("v_m_s", [2500.0, 4000.0])
@@ -152,9 +159,9 @@ def test_clinoform_heights_and_median(build_margin, planar):
 
 
 def test_measure_fills_contract_points(build_margin, planar):
-    picks, section = build_margin(planar(10.0), direction="-")
+    picks, section = build_margin(planar(10.0), direction="-", dz=0.5)
     before = section.copy(deep=True)
-    mm = measure(picks, section, uncertainty=False, base_length_m=100.0).margins[0]
+    mm = measure(picks, section, uncertainty=False).margins[0]
     # break at basinward trace 40 of a "-" line of 121 traces is section trace 80
     assert mm.shelf_break["trace"] == 80
     assert mm.shelf_break["distance_m"] == pytest.approx(80 * 25.0)
@@ -163,8 +170,8 @@ def test_measure_fills_contract_points(build_margin, planar):
     assert mm.shelf_break["y"] == pytest.approx(2000.0 + 0.8 * 2000.0)
     assert mm.shelf_break["depth_m"] == pytest.approx(200.0)
     assert mm.toe["depth_m"] == pytest.approx(200.0 + 1000.0 * np.tan(np.radians(10.0)))
-    # flat top: the first (most landward) of the equally high points within flank + base
-    # = 20 * 25 + 4 * 25 = 600 m landward of the break, basinward trace 40 - 24 = 16 -> section trace 104
+    # flat top: the first (most landward) of the equally high points within flank + local
+    # length = 20 * 25 + 4 * 25 = 600 m landward of the break, basinward trace 40 - 24 = 16 -> section trace 104
     assert mm.platform_top["trace"] == 104 and mm.platform_top["depth_m"] == pytest.approx(200.0)
     assert mm.platform_top["depth_min_m"] == mm.platform_top["depth_max_m"] == pytest.approx(200.0)
     assert mm.confidence == pytest.approx(0.9)
