@@ -107,10 +107,14 @@ class TraceHeaders:
         return np.asarray(self._mm[idx, TRACE_HEADER_BYTES:])
 
     def close(self):
+        """Release the memory map (left to the garbage collector if a view is still alive)."""
         mm = getattr(self._mm, "_mmap", None)
         self._mm = None
         if mm is not None:
-            mm.close()
+            try:
+                mm.close()
+            except BufferError:  # a view is still referenced (e.g. by a traceback); GC closes it
+                logger.debug("memory map of %s still referenced; left to the garbage collector", self.layout.path)
 
 
 def survey_geometry(hdr: TraceHeaders, chosen):

@@ -58,3 +58,18 @@ def test_inspect_missing_file(tmp_path, capsys):
     rc = main(["inspect", str(tmp_path / "nowhere.sgy")])
     _, err = capsys.readouterr()
     assert rc == 2 and "nowhere.sgy" in err and err.count("\n") == 1
+
+
+def test_console_script_inspect_json():
+    import shutil
+    import subprocess
+
+    exe = shutil.which("clinometry")
+    if exe is None:
+        pytest.skip("console script 'clinometry' is not installed in this environment")
+    proc = subprocess.run([exe, "inspect", str(DATA / "segy-reference" / "f3-lsb.sgy"), "--json"],
+                          capture_output=True, text=True, timeout=120)
+    assert proc.returncode == 0, proc.stderr
+    info = json.loads(proc.stdout)
+    # reference README: f3-lsb.sgy is f3.sgy byte-swapped: little-endian, inlines 111-133
+    assert info["byte_order"] == "little" and info["geometry"]["inline_range"] == [111, 133]
