@@ -238,13 +238,13 @@ def _metric_line(margin, key, label, unit, digits=1):
     return text
 
 
-def _margin_text(margin, width=62):
+def _margin_text(margin, number=1, width=56):
     fam = margin.get("family") or "unclassified"
     sub = margin.get("subtype")
     conf = margin.get("confidence")
     direction = "increasing" if margin.get("direction") == "+" else "decreasing"
     lines = [
-        f"Margin, basin towards {direction} trace number",
+        f"Margin {number}: basin towards {direction} trace numbers",
         f"Family: {fam}" + (f" ({sub})" if sub else "") + f"   confidence {_fmt(conf, '', 2)}",
         _metric_line(margin, "slope_max_deg", "Max slope", "°"),
         _metric_line(margin, "slope_mean_deg", "Mean slope", "°"),
@@ -333,7 +333,12 @@ def qc_figure(result, section, path, *, horizons=None, title=None):
         if g["role"] not in seen_roles:
             seen_roles.add(g["role"])
             handles.append(Line2D([], [], color=color, lw=max(lw, 1.2), label=label))
-    for m in margins:
+    for k, m in enumerate(margins, start=1):
+        brk = m.get("break")
+        if len(margins) > 1 and isinstance(brk, dict) and brk.get("distance_m") is not None and brk.get("z") is not None:
+            ax.annotate(f"M{k}", (brk["distance_m"] / 1000.0, brk["z"]), xytext=(0, 12), textcoords="offset points",
+                        ha="center", fontsize=9, fontweight="bold", color=OKABE_ITO["vermillion"],
+                        bbox=dict(boxstyle="round,pad=0.15", fc="white", ec="none", alpha=0.8))
         for key, style in (("break", _BREAK_STYLE), ("toe", _TOE_STYLE)):
             clino = [c.get(key) for c in m.get("clinoforms") or []]
             for pts, size in (([m.get(key)], style["s"]), (clino, 30)):
@@ -412,13 +417,18 @@ def qc_figure(result, section, path, *, horizons=None, title=None):
             sax.set_ylabel("slope along line (°)", fontsize=_FONT_SIZE)
             sax.tick_params(labelsize=_FONT_SIZE, axis="y")
             sax.set_ylim(0, max(5.0, float(np.nanmax(slope)) * 1.15 if np.isfinite(slope).any() else 5.0))
-            pax.set_title("margin depth profile (orange, left axis) and its slope (black dashed, right axis)",
-                          fontsize=_FONT_SIZE, loc="left")
+            brk, toe = m.get("break") or {}, m.get("toe") or {}
+            if brk.get("distance_m") is not None and toe.get("distance_m") is not None:
+                lo, hi = sorted((brk["distance_m"] / 1000.0, toe["distance_m"] / 1000.0))
+                pax.axvspan(lo, hi, color="#dddddd", zorder=0, lw=0)
+            label = f"Margin {i + 1}: " if len(margins) > 1 else ""
+            pax.set_title(f"{label}depth profile (orange, left axis), slope (black dashed, right axis); "
+                          "grey band: break to toe", fontsize=_FONT_SIZE, loc="left")
         pax.tick_params(labelsize=_FONT_SIZE)
         tax = fig.add_subplot(gs[1 + i, 1])
         tax.axis("off")
         tax.add_patch(plt.Rectangle((0.0, 0.93), 0.04, 0.06, color=color, transform=tax.transAxes, clip_on=False))
-        tax.text(0.06, 1.0, _margin_text(m), va="top", ha="left", fontsize=7.6, family="DejaVu Sans",
+        tax.text(0.06, 1.0, _margin_text(m, i + 1), va="top", ha="left", fontsize=7.6, family="DejaVu Sans",
                  transform=tax.transAxes, linespacing=1.25)
     return _save(fig, path)
 
