@@ -27,6 +27,8 @@ import re
 import tempfile
 from pathlib import Path
 
+from ..picking.export import HORIZON_COLUMNS  # columns of <stem>.horizons.csv
+
 __all__ = [
     "atomic_write",
     "safe_name",
@@ -312,10 +314,6 @@ def write_margins_parquet(rows, path):
     buf = pa.BufferOutputStream()
     pq.write_table(table, buf)
     return atomic_write(path, buf.getvalue().to_pybytes())
-
-
-#: columns of ``<stem>.horizons.csv``, in order (names end in their unit)
-HORIZON_COLUMNS = ("horizon_id", "role", "trace", "distance_m", "x", "y", "z", "depth_m", "quality")
 
 
 def write_result_files(result, out_dir, *, stem, plot=True, section=None, velocity=None) -> dict:
