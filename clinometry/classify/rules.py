@@ -81,6 +81,10 @@ def _cite(key):
     return DEFAULT_THRESHOLDS[key].cite
 
 
+#: secant and smooth-fit max slopes further apart than this factor flag a
+#: rough profile (chosen here; common practice, no source)
+_ROUGH_FACTOR = 1.5
+
 #: words for the bounds in reasons
 _BOUND_NAMES = {
     "ramp_max_slope_deg": "ramp upper bound",
@@ -219,6 +223,13 @@ def classify_rules(metrics, *, thresholds=None) -> Classification:
                       f"{sum(ok for ok, _ in checks)} of {len(checks)} secondary criteria agree, "
                       f"confidence {confidence:.2f}")
 
+    fit = _num(m, "slope_max_fit_deg")
+    if fit is not None and fit > 0 and max(slope, fit) / min(slope, fit) > _ROUGH_FACTOR:
+        reasons.append(
+            f"check the picks: the secant max slope {slope:.1f}° and the max slope {fit:.1f}° of the smooth "
+            f"profile fit (Adams & Schlager 2000) differ by more than a factor {_ROUGH_FACTOR:g}; a rough or "
+            "stitched profile makes the secant maximum unreliable")
+        hints["profile_rough"] = True
     hints["slope_fabric"] = _fabric(slope, t)
     hints["slope_fabric_reason"] = (
         f"max slope {slope:.1f}° against Kenter (1990) bounds: mud-dominated below {t['fabric_mud_max_deg']:.0f}°, "

@@ -35,7 +35,7 @@ import warnings
 
 import numpy as np
 
-__all__ = ["SHAPE_MODELS", "SHAPE_CLASSES", "MIN_SHAPE_POINTS", "fit_profile_shape", "shape_metrics"]
+__all__ = ["SHAPE_MODELS", "SHAPE_CLASSES", "MIN_SHAPE_POINTS", "fit_profile_shape", "fitted_max_gradient", "shape_metrics"]
 
 logger = logging.getLogger(__name__)
 
@@ -203,6 +203,27 @@ def fit_profile_shape(distance_m, depth_m) -> dict:
     }
 
 
+def fitted_max_gradient(model: str, params: dict, width_m: float) -> float:
+    """Steepest gradient (m/m) of a fitted profile model between 0 and ``width_m``.
+
+    linear: ``b``; exponential: ``a / L`` at the break; Gaussian:
+    ``a x / s^2 exp(-x^2 / 2 s^2)``, steepest at ``x = s`` (or at
+    ``width_m`` when ``s`` lies beyond it).  Calculus of the model curves.
+
+    Examples
+    --------
+    >>> round(fitted_max_gradient("exponential", {"a_m": 400.0, "length_m": 300.0}, 1500.0), 4)
+    1.3333
+    """
+    if model == "linear":
+        return float(params["gradient"])
+    if model == "exponential":
+        return float(params["a_m"] / params["length_m"])
+    s = float(params["sigma_m"])
+    x = min(s, float(width_m))
+    return float(params["a_m"] * x / s**2 * np.exp(-x * x / (2 * s * s)))
+
+
 def shape_metrics(geometry, *, min_points: int = MIN_SHAPE_POINTS) -> dict:
     """Profile shape between break and toe (planar / concave / sigmoidal) after Adams & Schlager (2000).
 
@@ -215,8 +236,10 @@ def shape_metrics(geometry, *, min_points: int = MIN_SHAPE_POINTS) -> dict:
     Returns
     -------
     dict
-        ``profile_shape``, ``profile_fit_model``, ``profile_fit_r2`` and the
-        R^2 of each model (``profile_fit_r2_linear``, ...), or reasons in
+        ``profile_shape``, ``profile_fit_model``, ``profile_fit_r2``, the
+        R^2 of each model (``profile_fit_r2_linear``, ...) and
+        ``slope_max_fit_deg`` (steepest slope of the chosen smooth model: a
+        maximum slope that a single rough pick cannot move), or reasons in
         ``"missing"``.
 
     References
@@ -239,6 +262,9 @@ def shape_metrics(geometry, *, min_points: int = MIN_SHAPE_POINTS) -> dict:
     if fit["profile_shape"] is None:
         return {"missing": {k: fit["reason"] for k in keys}}
     out = {k: fit[k] for k in keys}
+    model = fit["profile_fit_model"]
+    g = fitted_max_gradient(model, fit["fits"][model]["params"], float(x[-1]))
+    out["slope_max_fit_deg"] = float(np.degrees(np.arctan(g)))
     for name, f in fit["fits"].items():
         if "r2" in f:
             out[f"profile_fit_r2_{name}"] = float(f["r2"])

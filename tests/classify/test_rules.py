@@ -115,3 +115,11 @@ def test_classify_from_margin_metrics_and_unknown_classifier():
     assert classify_rules(mm).classifier == "rules"
     with pytest.raises(PluginError, match="no classifier plugin named 'nope'; installed: .*rules"):
         classify(mm, classifier="nope")
+
+
+def test_rough_profile_is_flagged_in_reasons():
+    # secant max 36 deg vs a smooth-fit max of 21 deg: factor 1.7 > 1.5 (flag chosen here)
+    c = classify({"slope_max_deg": 36.0, "slope_max_fit_deg": 21.0, **RIMMED_GOOD})
+    assert c.hints["profile_rough"] is True
+    assert any(r.startswith("check the picks: the secant max slope 36.0° and the max slope 21.0°") for r in c.reasons)
+    assert "profile_rough" not in classify({"slope_max_deg": 20.0, "slope_max_fit_deg": 19.0}).hints

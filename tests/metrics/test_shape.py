@@ -76,3 +76,26 @@ def test_shape_metrics_on_margin_and_missing_toe(build_margin):
     g = margin_geometry(picks, picks.margins[0], section)
     miss = shape_metrics(g)["missing"]
     assert "no toe found (test)" in miss["profile_shape"]
+
+
+@pytest.mark.parametrize("kind,expected_deg", [
+    # d/dx of 150 + 0.3 x is 0.3 -> atan(0.3) = 16.699 deg
+    ("linear", np.degrees(np.arctan(0.3))),
+    # d/dx of 600 - 400 exp(-x/300) at x = 0 is 400/300 -> 53.130 deg
+    ("exponential", np.degrees(np.arctan(400.0 / 300.0))),
+    # d/dx of 700 - 450 exp(-x^2/(2 500^2)) peaks at x = 500: 450/500 exp(-1/2) -> 28.63 deg
+    ("gaussian", np.degrees(np.arctan(450.0 / 500.0 * np.exp(-0.5)))),
+])
+def test_fitted_max_slope_from_model_calculus(build_margin, kind, expected_deg):
+    # derivatives of the analytic curves (calculus, common practice, no source)
+    f = {"linear": lambda u: 150.0 + 0.3 * u,
+         "exponential": lambda u: 600.0 - 400.0 * np.exp(-u / 300.0),
+         "gaussian": lambda u: 700.0 - 450.0 * np.exp(-u**2 / (2 * 500.0**2))}[kind]
+
+    def fn(x):
+        x = np.asarray(x, dtype=float)
+        return np.where(x < 500.0, f(0.0), f(x - 500.0))
+
+    picks, section = build_margin(fn, n_trace=121, break_trace=20, toe_trace=80)
+    out = shape_metrics(margin_geometry(picks, picks.margins[0], section))
+    assert out["slope_max_fit_deg"] == pytest.approx(expected_deg, rel=1e-5)
