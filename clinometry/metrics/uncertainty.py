@@ -12,7 +12,7 @@ velocity
     One factor ``f`` per draw, normal with mean 1 and standard deviation
     ``velocity_sigma_fraction`` (8 % as one sigma by default, a common figure
     for velocities from stacking or well ties; common practice, no source),
-    truncated at 3 sigma.  The model is ``velocity.scaled(f)``; scaling
+    clipped at 3 sigma.  The model is ``velocity.scaled(f)``; scaling
     velocity by ``f`` at every time scales every depth by ``f``, which is
     checked once per margin and then used to vectorise over the draws (if a
     model does not scale that way, the draws call the scaled model one by
@@ -57,8 +57,8 @@ UNCERTAINTY_DEFAULTS = {
     "pick_sigma_samples": 1.0,
     "pick_sigma_traces": 1.0,
 }
-#: truncation of the velocity factor, in sigmas (chosen here: keeps f > 0
-#: for any sensible sigma)
+#: clip of the velocity factor, in sigmas (chosen here: keeps f > 0 for any
+#: allowed sigma; moves 0.27 % of the draws)
 _TRUNCATE_SIGMA = 3.0
 _PERCENTILES = (10.0, 50.0, 90.0)
 
@@ -103,7 +103,7 @@ def uncertainty_settings(uncertainty=True, *, seed: int = 0) -> dict:
                          f"(must be < {1 / _TRUNCATE_SIGMA:.3f} so velocities stay positive)")
     out["n_draws"] = int(out["n_draws"])
     out["seed"] = int(seed)
-    out["velocity_distribution"] = "normal, mean 1, truncated at 3 sigma"
+    out["velocity_distribution"] = "normal, mean 1, clipped at 3 sigma"
     out["pick_distribution"] = "normal at break and toe, linear along the foreset"
     return out
 
@@ -139,7 +139,8 @@ def propagate(geometry, *, settings: dict, section=None, velocity=None, base_len
     settings : dict
         From :func:`uncertainty_settings` (includes ``seed``).
     section : xarray.DataArray, optional
-        Needed only to check that ``velocity.scaled`` scales depths linearly.
+        Required with a velocity model (TWT sections): the picks are
+        re-converted with the scaled models.
     velocity : velocity model, optional
         The run's model (None for depth sections: no velocity error).
     base_length_m : float, m, optional
@@ -151,6 +152,11 @@ def propagate(geometry, *, settings: dict, section=None, velocity=None, base_len
         ``{"slope_max_deg": {"p10", "p50", "p90"}, "slope_mean_deg": ...,
         "relief_m": ..., "break_depth_m": ...}``; a metric is left out when
         its pick is missing.
+
+    Raises
+    ------
+    ValueError
+        A velocity model without the section.
 
     References
     ----------
@@ -169,6 +175,8 @@ def propagate(geometry, *, settings: dict, section=None, velocity=None, base_len
 
     # velocity factor per draw
     sig_v = settings["velocity_sigma_fraction"] if geometry.domain == "twt" and velocity is not None else 0.0
+    if sig_v > 0 and section is None:
+        raise ValueError(f"{geometry.name}: propagate needs the section to apply velocity errors; pass section=")
     f = _velocity_factors(rng, n, sig_v) if sig_v > 0 else np.ones(n)
     per_draw_depth = None
     if sig_v > 0 and not _scales_linearly(section, velocity, prof, 1.0 + sig_v):
