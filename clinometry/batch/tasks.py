@@ -24,7 +24,7 @@ import glob
 import json
 import logging
 import os
-from dataclasses import asdict, dataclass, field
+from dataclasses import dataclass, field
 from pathlib import Path
 
 from ..errors import ClinometryError, GeometryError
@@ -398,7 +398,3 @@ def run_task(task, options) -> dict:
     rec["n_margins"] = int(result.n_margins)
     return rec
 
-
-def task_dict(task) -> dict:
-    """A task as a plain dict (for logs and records)."""
-    return asdict(task)

@@ -62,19 +62,29 @@ def bundled_inputs():
     return None
 
 
-def generate_inputs(folder, *, seed=0, scenarios=None, cube=True):
+#: how the bundled inputs were made (scripts/make_synthetic_volumes.py): the
+#: scenario at position i of ``SCENARIOS`` with seed i, these lines in IBM
+#: float, and the cube with its own seed and name
+BUNDLE_IBM_LINES = ("steep_margin",)
+BUNDLE_CUBE_SEED = 99
+BUNDLE_CUBE_NAME = "curved_margin_cube"
+
+
+def generate_inputs(folder, *, scenarios=None, cube=True):
     """Write forward-model scenarios (and the 3D cube) into ``folder``.
+
+    The files are made as the bundled ``synthetic_volumes/`` are (same
+    seeds, sample formats and names), so the demo shows the same lines with
+    or without the bundle.
 
     Parameters
     ----------
     folder : str or os.PathLike
         Created if missing.
-    seed : int
-        Seed of the forward model's noise (the bundled files use 0).
     scenarios : sequence of str, optional
         Scenario names; default every one in ``clinometry.synth.SCENARIOS``.
     cube : bool
-        Also write the small 3D cube (``cube.sgy``).
+        Also write the small 3D cube.
 
     Returns
     -------
@@ -85,13 +95,15 @@ def generate_inputs(folder, *, seed=0, scenarios=None, cube=True):
 
     folder = Path(folder)
     folder.mkdir(parents=True, exist_ok=True)
+    order = list(synth.SCENARIOS)
     written = []
-    for name in (synth.SCENARIOS if scenarios is None else scenarios):
-        section, truth = synth.make_line(name, seed=seed)
-        written.append(synth.write_line(section, truth, folder / f"{name}.sgy")[0])
+    for name in (order if scenarios is None else scenarios):
+        section, truth = synth.make_line(name, seed=order.index(name))
+        fmt = "ibm" if name in BUNDLE_IBM_LINES else "ieee"
+        written.append(synth.write_line(section, truth, folder / f"{name}.sgy", sample_format=fmt)[0])
     if cube:
-        volume, truth = synth.make_cube(seed=seed)
-        written.append(synth.write_cube(volume, truth, folder / "cube.sgy")[0])
+        volume, truth = synth.make_cube(seed=BUNDLE_CUBE_SEED)
+        written.append(synth.write_cube(volume, truth, folder / f"{BUNDLE_CUBE_NAME}.sgy")[0])
     return written
 
 
