@@ -5,8 +5,10 @@ The JSON contract itself is checked key by key in tests/test_result.py.
 
 import csv
 import json
+import shutil
 import subprocess
 import sys
+from pathlib import Path
 
 import numpy.testing as npt
 import pytest
@@ -126,9 +128,32 @@ def test_bad_thresholds_file_exit_2_names_it(synthetic_line_file, tmp_path, caps
 
 
 def test_console_script_runs_plugins_listing():
-    # the installed console script (setup.cfg console_scripts) in a subprocess
-    proc = subprocess.run([sys.executable, "-m", "clinometry", "plugins", "--kind", "picker"],
-                          capture_output=True, text=True, timeout=120)
+    # the installed console script (setup.cfg console_scripts), next to this interpreter
+    script = shutil.which("clinometry", path=str(Path(sys.executable).parent))
+    assert script, f"no 'clinometry' console script beside {sys.executable}; is the package installed?"
+    proc = subprocess.run([script, "plugins", "--kind", "picker"], capture_output=True, text=True, timeout=120)
     assert proc.returncode == 0, proc.stderr
     assert proc.stdout.splitlines()[:2] == ["pickers (clinometry.pickers):",
                                             "  default  [clinometry.picking.surfaces:pick_default]"]
+
+
+def test_depth_domain_file_needs_no_velocity(synthetic_shelf, tmp_path, capsys):
+    from clinometry.depth import ConstantVelocity, section_to_depth
+    from clinometry.synth.write import write_line
+
+    section, truth = synthetic_shelf
+    dsec = section_to_depth(section, ConstantVelocity(2500.0), dz_m=2.5)
+    path, _ = write_line(dsec, {**truth, "domain": "depth", "units": "m"}, tmp_path / "shelf_depth.sgy")
+    code, out, err = _run(capsys, ["analyze", str(path), "--domain", "depth", "--no-uncertainty", "--no-plot",
+                                   "--out", str(tmp_path / "out")])
+    assert code == 0, err
+    d = json.loads((tmp_path / "out" / "shelf_depth.json").read_text())
+    assert d["source"]["domain"] == "depth" and d["velocity"]["model"] == "none"
+    assert d["velocity"]["default_fallback"] is False and "m/s assumed" not in out
+    for m in d["margins"]:
+        # in a depth section z is already depth below the z origin
+        npt.assert_allclose(m["break"]["depth_m"], m["break"]["z"])
+    # a velocity for a depth section is refused with one line naming the problem
+    code, _, err = _run(capsys, ["analyze", str(path), "--domain", "depth", "--velocity", "2500",
+                                 "--out", str(tmp_path / "out")])
+    assert code == 2 and err.startswith("clinometry: error: ") and err.count("\n") == 1
