@@ -23,7 +23,13 @@ from .._plugins import plugin_names
 DESCRIPTION = "analyze one line: picks, slope, relief, trajectory and margin family"
 EXAMPLE = "clinometry analyze line_07.sgy --velocity 2800 --out results/"
 
-__all__ = ["DESCRIPTION", "EXAMPLE", "configure", "run"]
+__all__ = ["DESCRIPTION", "EXAMPLE", "CAUTION_LINE", "configure", "run"]
+
+#: printed under every summary with margins (common practice, no source)
+CAUTION_LINE = (
+    "an interpretation aid: do not base drilling or storage decisions on these numbers alone; "
+    "follow local regulations and licensed practice"
+)
 
 logger = logging.getLogger(__name__)
 
@@ -96,4 +102,6 @@ def run(args) -> int:
             print(f"  {note}")
     for fb in result.run.get("fallbacks", []):
         print(f"  fallback: {fb}")
+    if result.n_margins:
+        print(f"  caution: {CAUTION_LINE}")
     return 0

@@ -38,6 +38,10 @@ def test_analyze_writes_json_horizons_and_summary(synthetic_line_file, tmp_path,
         f"confidence {m['confidence']:.2f}, slope max {m['slope_max_deg']:.1f} deg, "
         f"mean {m['slope_mean_deg']:.1f} deg, relief {m['relief_m']:.0f} m"
     )
+    from clinometry.cli.analyze import CAUTION_LINE
+
+    assert lines[-1] == f"  caution: {CAUTION_LINE}"
+    assert "drilling" in CAUTION_LINE and "regulations" in CAUTION_LINE
     assert not (out_dir / "shelf_line.png").exists()
     with open(out_dir / "shelf_line.horizons.csv", newline="") as fh:
         rows = list(csv.DictReader(fh))
