@@ -299,8 +299,9 @@ def margin_geometry(picks, margin, section, velocity=None) -> MarginGeometry:
             raise GeometryError(f"{name}: {what} at trace {p.trace} is outside the section's 0..{n_trace - 1}")
 
     prof_h = _horizon(margin.profile_id, "margin profile")
-    if prof_h.trace.size < 2:
-        raise GeometryError(f"{name}: margin profile horizon {prof_h.id} has {prof_h.trace.size} point(s); need 2 or more")
+    n_ok = int(np.isfinite(prof_h.z).sum())
+    if n_ok < 2:
+        raise GeometryError(f"{name}: margin profile horizon {prof_h.id} has {n_ok} finite point(s); need 2 or more")
     origin = float(np.min(sign * distance[prof_h.trace])) * sign
     profile = _surface(section, velocity, prof_h, sign, origin, distance, margin.shelf_break, margin.toe,
                        margin.break_reason, margin.toe_reason)

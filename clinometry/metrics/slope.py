@@ -256,6 +256,11 @@ def _window(surface, lo, hi):
 def _foreset(geometry, surface, base_length_m, label):
     """slope max / mean, relief, width of one surface; dict of values and missing reasons."""
     values, missing = {}, {}
+    if len(surface) < 2:
+        reason = f"{label}: {len(surface)} finite point(s) on the surface; need 2"
+        for k in ("slope_max_deg", "slope_mean_deg", "relief_m", "foreset_width_m"):
+            missing[k] = reason
+        return values, missing, "none"
     base_m = base_length_m_for(geometry, base_length_m, surface=surface)
     values["slope_base_length_m"] = base_m
     brk, toe = surface.shelf_break, surface.toe

@@ -52,7 +52,8 @@ def _build(depth_fn, *, n_trace=121, spacing_m=25.0, break_trace=40, toe_trace=8
     toe = None if toe_trace is None else PickPoint(to_trace(toe_trace), float(zc[to_trace(toe_trace)]))
     margin = MarginPicks(direction, 0, top_id, brk, toe, tuple(clinos), 0.9,
                          "" if brk else "no rollover found (test)", "" if toe else "no toe found (test)")
-    zmax = float(np.nanmax([np.nanmax(h.z) for h in horizons])) + 50 * dz
+    zall = np.concatenate([h.z for h in horizons])
+    zmax = float(np.max(zall[np.isfinite(zall)])) + 50 * dz
     z = np.arange(0.0, zmax, dz)
     section = make_section(np.zeros((n_trace, z.size), dtype=np.float32), z=z,
                            domain="twt" if velocity is not None else "depth",

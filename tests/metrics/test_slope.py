@@ -191,3 +191,12 @@ def test_platform_top_point_is_the_rim(build_margin, planar):
     mm = measure(picks, section, uncertainty=False).margins[0]
     assert mm.platform_top["trace"] == 32 and mm.platform_top["depth_m"] == pytest.approx(192.0)
     assert mm.platform_top["horizon_id"] == 1
+
+
+def test_clinoform_without_finite_points_is_missing_not_an_error(build_margin, planar):
+    clinos = [(lambda x: np.full(np.shape(x), np.nan), None, None), (planar(20.0), 40, 80)]
+    v, _ = _slope(*build_margin(planar(20.0), clinoforms=clinos))
+    c = v["clinoforms"]
+    assert c[0]["slope_max_deg"] is None
+    assert c[0]["missing"]["slope_max_deg"] == "clinoform 10: 0 finite point(s) on the surface; need 2"
+    assert c[1]["slope_max_deg"] == pytest.approx(20.0)
