@@ -34,6 +34,21 @@ from scipy import ndimage
 
 __all__ = ["SlopeFace", "slope_faces"]
 
+
+def _follow_face(env, dip, coh, top, half, max_jump, period):
+    """Minimum-cost path through the envelope in a band around the mask top."""
+    from .tracking import min_cost_path
+
+    n, nz = env.shape
+    smooth_top = ndimage.gaussian_filter1d(ndimage.median_filter(top.astype(float), size=5, mode="nearest"), 1.0)
+    zz = np.arange(nz)[None, :]
+    band = np.abs(zz - smooth_top[:, None]) <= half
+    scale = float(np.percentile(env[band], 99)) if band.any() else 1.0
+    cost = np.where(band, 1.0 - np.clip(env / (scale or 1.0), 0, 1), 10.0)
+    k = int(np.ceil(max_jump)) + 1
+    w = coh**2 * (1.5 / max(period, 1.0))
+    return min_cost_path(cost, max_jump=k, jump_cost=0.3 / max(period, 1.0), dip=dip, dip_cost=w).astype(float)
+
 logger = logging.getLogger(__name__)
 
 #: coherence above which a dip is trusted (common practice, no source)
@@ -49,7 +64,17 @@ class SlopeFace:
     z_index: np.ndarray
 
 
-def slope_faces(dip_deg, coherence, envelope, *, min_dip_deg: float, period_samples: float, min_traces: int = 4):
+def slope_faces(
+    dip_deg,
+    coherence,
+    envelope,
+    *,
+    min_dip_deg: float,
+    period_samples: float,
+    min_traces: int = 4,
+    dip_samples=None,
+    max_jump_samples: float | None = None,
+):
     """Slope faces facing "+" and "-" (at most one each, the longest).
 
     Parameters
@@ -63,6 +88,15 @@ def slope_faces(dip_deg, coherence, envelope, *, min_dip_deg: float, period_samp
         Dominant period in samples (sets the mask cleaning and snapping).
     min_traces : int
         Shortest face kept.
+    dip_samples : array_like, shape (n_trace, n_z), optional
+        Dip in samples per trace.  When given (with ``max_jump_samples``)
+        the face is followed as a minimum-cost path through the envelope
+        inside a band of half a period around the top of the mask, with
+        steps that agree with the local dip (so it follows one reflection
+        instead of hopping between wavelet lobes); otherwise each trace is
+        snapped to its envelope maximum near the mask top.
+    max_jump_samples : float, optional
+        Largest z step between neighbouring traces, in samples.
 
     Returns
     -------
@@ -103,9 +137,12 @@ def slope_faces(dip_deg, coherence, envelope, *, min_dip_deg: float, period_samp
         if run.size < min_traces:
             continue
         t0 = top[run]
-        # snap to the envelope maximum within [-P/4, +P/2] of the mask top
-        offs = np.arange(-max(1, hz // 2), hz + 1)
-        cand = np.clip(t0[:, None] + offs[None, :], 0, nz - 1)
-        best = cand[np.arange(run.size), np.argmax(env[run[:, None], cand], axis=1)]
+        if dip_samples is not None and max_jump_samples is not None:
+            best = _follow_face(env[run], np.asarray(dip_samples, np.float32)[run], coh[run], t0, hz, max_jump_samples, period_samples)
+        else:
+            # snap to the envelope maximum within [-P/4, +P/2] of the mask top
+            offs = np.arange(-max(1, hz // 2), hz + 1)
+            cand = np.clip(t0[:, None] + offs[None, :], 0, nz - 1)
+            best = cand[np.arange(run.size), np.argmax(env[run[:, None], cand], axis=1)]
         out.append(SlopeFace(direction, run.astype(np.int64), best.astype(np.float64)))
     return out

@@ -41,6 +41,10 @@ __all__ = ["reflector_orientation"]
 
 logger = logging.getLogger(__name__)
 
+#: tensor trace below this fraction of its 99th percentile counts as no
+#: signal (common practice, no source)
+ENERGY_FLOOR = 1e-3
+
 
 def reflector_orientation(image, *, sigma_z_samples: float, sigma_trace: float = 1.5):
     """Local dip (samples per trace) and coherence (0..1) of reflectors.
@@ -86,6 +90,9 @@ def reflector_orientation(image, *, sigma_z_samples: float, sigma_trace: float =
     # the tangent satisfies n_t dt + n_z dz = 0, so dz/dt = -n_t / n_z
     tr = a_tt + a_zz
     disc = np.sqrt((a_tt - a_zz) ** 2 + 4.0 * a_tz**2)
+    # where there is (almost) no gradient energy the orientation is
+    # undefined: coherence 0 there, not round-off
+    floor = ENERGY_FLOOR * float(np.percentile(tr, 99)) if tr.size else 0.0
     with np.errstate(divide="ignore", invalid="ignore"):
-        coh = np.where(tr > 0, disc / tr, 0.0)
+        coh = np.where(tr > floor, disc / tr, 0.0)
     return dip.astype(np.float32), np.clip(coh, 0.0, 1.0).astype(np.float32)

@@ -23,6 +23,7 @@ from __future__ import annotations
 import logging
 
 import numpy as np
+from scipy import ndimage
 
 from ..errors import PickingError
 from ..section import check_section, section_name
@@ -83,6 +84,9 @@ def _horizon_pieces(zs, q, min_len, start_id, z_axis):
 #: coherent dips steeper than this (true degrees) mark a slope face
 #: (common practice, no source)
 FACE_MIN_DIP_DEG = 3.0
+#: reflections below a face must dip at least this fraction of its slope
+#: (common practice, no source)
+FACE_DIP_AGREEMENT = 0.4
 
 
 def _true_dip_deg(section, velocity, dip_samples, dx_m):
@@ -93,6 +97,19 @@ def _true_dip_deg(section, velocity, dip_samples, dx_m):
     v = np.atleast_1d(velocity_at(section, velocity, section["z"].values)).astype(np.float32)
     v = np.broadcast_to(v, (dip_samples.shape[1],))[None, :]
     return np.degrees(np.arctan(0.5 * v * dip_samples * dz * 1e-3 / dx_m)).astype(np.float32)
+
+
+#: a surface is regularised by a running median over this many wavelengths
+#: and a Gaussian (sigma) of half of it, to remove single-trace jumps between
+#: wavelet lobes without flattening slopes (common practice, no source)
+REGULARISE_WAVELENGTHS = 1.0
+
+
+def _regularise(z_index, wavelength_traces):
+    """Running median then Gaussian along the line (sizes from the wavelength)."""
+    size = int(max(3, 2 * round(REGULARISE_WAVELENGTHS * wavelength_traces / 2) + 1))
+    med = ndimage.median_filter(z_index, size=size, mode="nearest")
+    return ndimage.gaussian_filter1d(med, max(0.5, REGULARISE_WAVELENGTHS * wavelength_traces / 2), mode="nearest")
 
 
 def _envelope_quality(env, dead):
@@ -116,18 +133,54 @@ def _face_profile(face, paths, e_q, coh, period_samples, *, rank):
     q[face.trace] = np.maximum(e_q[face.trace, zi], 0.5 * coh[face.trace, zi])
     i0, i1 = int(face.trace[0]), int(face.trace[-1])
     reach = max(3, int(round(2 * period_samples)))
-    for end, side, near in ((i0, rows < i0, slice(max(0, i0 - reach), i0)), (i1, rows > i1, slice(i1 + 1, i1 + 1 + reach))):
+    half = max(1, face.trace.size // 2)
+    ends = (
+        (i0, slice(max(0, i0 - reach), i0), face.trace[:half], True),
+        (i1, slice(i1 + 1, i1 + 1 + reach), face.trace[-half:], False),
+    )
+    for end, near, join_zone, before in ends:
         # the strongest surface within one period of the face end, judged
         # just beyond the end (platform top landward, basin floor basinward)
         close = [p for p in paths if abs(p.z_index[end] - z[end]) <= period_samples]
-        if not close or not side.any():
+        if not close:
             continue
         best = max(close, key=lambda p: float(np.mean(p.quality[near])) if p.quality[near].size else 0.0)
+        # join where the face meets the surface (within half a period),
+        # as far into the face as possible, so the profile has no step
+        gap = np.abs(best.z_index[join_zone] - z[join_zone])
+        meet = np.flatnonzero(gap <= 0.5 * period_samples)
+        if meet.size:
+            j = int(join_zone[meet[-1]] if before else join_zone[meet[0]])
+        else:
+            j = int(join_zone[np.argmin(gap)])
+        side = rows < j if before else rows > j
         z[side] = best.z_index[side]
         q[side] = best.quality[side]
     good = np.isfinite(z)
     z = np.interp(rows, rows[good], z[good])
     return TrackedPath(z_index=z, quality=q, polarity="unknown", rank=rank)
+
+
+def _face_unconfirmed(cand, z_index, dip_deg, coh, period_samples):
+    """Reason why the reflections just below a face do not dip like it, or ''.
+
+    Foresets below a slope face run roughly parallel to it; a face whose
+    underlying coherent dips are much gentler than its own slope is an
+    artefact of the mask (common practice, no source).
+    """
+    lo, hi = _foreset_span(cand)
+    tr = np.arange(lo, hi + 1)
+    nz = dip_deg.shape[1]
+    below = np.clip(np.round(z_index[tr])[:, None] + np.arange(1, int(period_samples) + 2)[None, :], 0, nz - 1).astype(int)
+    d = np.abs(dip_deg[tr[:, None], below])
+    c = coh[tr[:, None], below]
+    sure = c >= 0.5
+    if sure.sum() < 3:
+        return "no coherent reflections below the face"
+    med = float(np.median(d[sure]))
+    if med < FACE_DIP_AGREEMENT * abs(cand.slope_max_deg):
+        return f"reflections below the face dip {med:.1f} deg, much less than its slope {cand.slope_max_deg:.1f} deg"
+    return ""
 
 
 def _cuts_layering(cand, z_index, dip, coh):
@@ -271,12 +324,22 @@ def pick_default(
     rows = np.arange(n)
     dip_deg = _true_dip_deg(section, velocity, dip, dx_m)
     e_q = _envelope_quality(cond.envelope, cond.dead)
-    faces = slope_faces(dip_deg, coh, cond.envelope, min_dip_deg=FACE_MIN_DIP_DEG, period_samples=period_samples)
+    faces = slope_faces(
+        dip_deg,
+        coh,
+        cond.envelope,
+        min_dip_deg=FACE_MIN_DIP_DEG,
+        period_samples=period_samples,
+        dip_samples=dip,
+        max_jump_samples=max_jump,
+    )
+    face_ranks = set()
     for f in faces:
+        face_ranks.add(len(paths))
         paths.append(_face_profile(f, paths, e_q, coh, period_samples, rank=len(paths)))
     zs_list, depth_list, q_list = [], [], []
     for p in paths:
-        zs = np.interp(p.z_index, np.arange(z_axis.size), z_axis)
+        zs = np.interp(_regularise(p.z_index, wavelength / dx_m), np.arange(z_axis.size), z_axis)
         zi = np.clip(np.round(p.z_index).astype(int), 0, z_axis.size - 1)
         q = p.quality * (0.5 + 0.5 * coh[rows, zi])
         zs_list.append(zs)
@@ -286,7 +349,11 @@ def pick_default(
     cands = []
     for p, dep, q in zip(paths, depth_list, q_list):
         for c in profile_candidates(dist, dep, q, path_rank=p.rank, smoothing_m=smoothing, min_relief_m=min_relief):
-            why = _cuts_layering(c, p.z_index, dip, coh)
+            # a face is built from the dip field itself; the test is for tracked surfaces
+            if p.rank in face_ranks:
+                why = _face_unconfirmed(c, p.z_index, dip_deg, coh, period_samples)
+            else:
+                why = _cuts_layering(c, p.z_index, dip, coh)
             if why:
                 logger.debug("surface %d candidate at %s rejected: %s", p.rank, c.leg, why)
                 continue
@@ -319,6 +386,19 @@ def pick_default(
         strong = [m for m in g if m.foreset_quality >= 0.6 * best_q]
         # the outer surface (youngest clinoform) is the shallowest strong one
         profile = min(strong, key=lambda m: float(np.mean(depth_list[m.path_rank][core])))
+        if profile.path_rank in face_ranks:
+            # a tracked reflection within a period of the face along its
+            # foreset is the better pick of the same surface
+            lo_f, hi_f = _foreset_span(profile)
+            fz = paths[profile.path_rank].z_index[lo_f : hi_f + 1]
+            near = [
+                m
+                for m in strong
+                if m.path_rank not in face_ranks
+                and np.mean(np.abs(paths[m.path_rank].z_index[lo_f : hi_f + 1] - fz)) <= period_samples
+            ]
+            if near:
+                profile = max(near, key=lambda m: m.foreset_quality)
         conf = profile.confidence
         if conf < min_confidence:
             notes.append(
