@@ -130,7 +130,7 @@ def _face_profile(face, paths, e_q, coh, period_samples, *, rank):
     q = np.zeros(n)
     z[face.trace] = face.z_index
     zi = np.clip(np.round(face.z_index).astype(int), 0, e_q.shape[1] - 1)
-    q[face.trace] = np.maximum(e_q[face.trace, zi], 0.5 * coh[face.trace, zi])
+    q[face.trace] = e_q[face.trace, zi] * (0.5 + 0.5 * coh[face.trace, zi])
     i0, i1 = int(face.trace[0]), int(face.trace[-1])
     reach = max(3, int(round(2 * period_samples)))
     half = max(1, face.trace.size // 2)
