@@ -95,10 +95,13 @@ def _iter_local(tasks, options, workers):
             yield run_task(t, options)
         return
     ctx = multiprocessing.get_context("spawn")
-    with ProcessPoolExecutor(max_workers=workers, mp_context=ctx) as pool:
+    pool = ProcessPoolExecutor(max_workers=workers, mp_context=ctx)
+    try:
         futures = [pool.submit(run_task, t, options) for t in tasks]
         for fut in as_completed(futures):
             yield fut.result()
+    finally:  # on Ctrl-C or an error, do not start the lines still queued
+        pool.shutdown(wait=True, cancel_futures=True)
 
 
 def _iter_dask(tasks, options, scheduler):
