@@ -73,6 +73,8 @@ ROLE_STYLES = {
 _BREAK_STYLE = dict(marker="v", s=90, color=OKABE_ITO["vermillion"], edgecolor="white", linewidth=1.0, zorder=6)
 _TOE_STYLE = dict(marker="^", s=90, color=OKABE_ITO["blue"], edgecolor="white", linewidth=1.0, zorder=6)
 _FONT_SIZE = 9
+#: most lines of text in a margin's text panel (fits the panel at 7.6 pt)
+_MAX_TEXT_LINES = 19
 
 
 def _as_dict(result):
@@ -267,6 +269,8 @@ def _margin_text(margin, number=1, width=56):
         lines.append("Not measured:")
         for k, why in list(missing.items())[:3]:
             lines.extend(textwrap.wrap(f"{k}: {why}", width, initial_indent="  - ", subsequent_indent="    "))
+    if len(lines) > _MAX_TEXT_LINES:  # keep the panel inside its box; the JSON has everything
+        lines = lines[: _MAX_TEXT_LINES - 1] + ["  ... more in the JSON"]
     return "\n".join(lines)
 
 
