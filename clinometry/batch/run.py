@@ -210,7 +210,8 @@ def run_batch(
         Address of a running ``dask.distributed`` scheduler
         (``tcp://host:port``); then ``workers`` is ignored.
     resume : bool
-        Skip lines whose files are complete and valid.
+        Skip lines whose files are complete, valid and made with the same
+        settings (see :func:`clinometry.batch.tasks.is_complete`).
     inlines, crosslines : str, optional
         ``all`` or ``A:B:STEP`` for 3D volumes (default every inline).
     velocity, velocity_linear, velocity_file, velocity_kind, domain, picker, classifier, thresholds, uncertainty, seed
@@ -256,7 +257,7 @@ def run_batch(
     )
     todo, skipped = [], 0
     for t in tasks:
-        if resume and is_complete(t, out, plot=plot):
+        if resume and is_complete(t, out, plot=plot, options=options):
             skipped += 1
         else:
             todo.append(t)

@@ -301,7 +301,30 @@ def output_names(stem, *, plot=True):
     return {"json": f"{stem}.json", "csv": f"{stem}.horizons.csv", "png": f"{stem}.png" if plot else None}
 
 
-def is_complete(task, out_dir, *, plot=True) -> bool:
+def _settings_differ(d, task, options):
+    """Why a stored result was made with other settings than ``options`` ("" when it was not)."""
+    run = d.get("run") or {}
+    if run.get("seed") != options.seed:
+        return f"seed {run.get('seed')} != {options.seed}"
+    for key in ("picker", "classifier"):
+        if run.get(key) != getattr(options, key):
+            return f"{key} {run.get(key)!r} != {getattr(options, key)!r}"
+    if bool(run.get("uncertainty")) != bool(options.uncertainty):
+        return "uncertainty on/off differs"
+    vel = d.get("velocity") or {}
+    want = options.file_velocity.get(task.path) or {"velocity": options.velocity,
+                                                    "velocity_linear": options.velocity_linear}
+    if want.get("velocity") is not None:
+        if vel.get("model") != "constant" or vel.get("velocity_m_s") != float(want["velocity"]):
+            return f"velocity {vel} is not constant {want['velocity']} m/s"
+    elif want.get("velocity_linear") is not None:
+        v0, k = (float(v) for v in want["velocity_linear"])
+        if vel.get("model") != "linear" or (vel.get("v0_m_s"), vel.get("k_per_s")) != (v0, k):
+            return f"velocity {vel} is not linear {v0} m/s + {k} 1/s z"
+    return ""
+
+
+def is_complete(task, out_dir, *, plot=True, options=None) -> bool:
     """True when the outputs of ``task`` exist and its JSON follows the contract.
 
     Parameters
@@ -310,6 +333,11 @@ def is_complete(task, out_dir, *, plot=True) -> bool:
     out_dir : str or os.PathLike
     plot : bool
         Whether the QC PNG is required.
+    options : TaskOptions, optional
+        When given, the stored result must also have been made with the same
+        seed, picker, classifier, uncertainty switch and (constant or linear)
+        velocity; otherwise the line is redone, so one table never mixes
+        settings.
     """
     from ..result import validate_result_dict
 
@@ -324,6 +352,11 @@ def is_complete(task, out_dir, *, plot=True) -> bool:
     except (OSError, ValueError, ClinometryError) as err:
         logger.info("%s: result not valid, redone (%s)", names["json"], err)
         return False
+    if options is not None:
+        why = _settings_differ(d, task, options)
+        if why:
+            logger.info("%s: made with other settings (%s), redone", names["json"], why)
+            return False
     return True
 
 

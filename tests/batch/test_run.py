@@ -136,3 +136,13 @@ def test_batch_over_a_3d_cube_gives_one_line_per_inline_and_a_map(tmp_path):
             assert float(r["break_y"]) == pytest.approx(cy[idx], abs=0.01)
     for name in ("map.png", "summary.png", "index.html", f"cube_il{first}.png"):
         assert (out / name).read_bytes()[:4] == (b"\x89PNG" if name.endswith(".png") else b"<!DO")
+
+
+def test_resume_redoes_lines_made_with_another_velocity(good_lines, reference_run, tmp_path):
+    out = tmp_path / "out"
+    shutil.copytree(reference_run[0], out)
+    summary = run_batch([good_lines], out, workers=1, plot=False, quiet=True, resume=True, velocity=2600.0,
+                        uncertainty=True)
+    assert (summary.n_skipped, summary.n_ok) == (0, 2)
+    for d in _jsons(out).values():
+        assert d["velocity"]["velocity_m_s"] == 2600.0
