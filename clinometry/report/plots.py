@@ -217,6 +217,8 @@ def _velocity_text(vel):
                        if k not in ("model", "default_fallback") and isinstance(v, (int, float))
                        and not isinstance(v, bool))
     text = f"{model} ({params})" if params else str(model)
+    if vel.get("reason"):
+        text += f" - {vel['reason']}"
     return text + (" - package default, no velocity given" if vel.get("default_fallback") else "")
 
 
