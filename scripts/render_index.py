@@ -66,6 +66,21 @@ def render(index_html, png, *, width=1400, height=1800, timeout_s=120.0):
     return png
 
 
+def dump_dom(url, *, timeout_s=120.0) -> str:
+    """The page's DOM after its scripts ran (``chromium --headless --dump-dom``)."""
+    browser = find_browser()
+    if browser is None:
+        raise FileNotFoundError(f"no Chromium found (tried {', '.join(BROWSERS)}); apt-get install chromium")
+    with tempfile.TemporaryDirectory(prefix="clinometry-chromium-") as profile:
+        cmd = [browser, "--headless", "--no-sandbox", "--disable-gpu", "--disable-quic", "--no-first-run",
+               "--disable-background-networking", "--disable-component-update", "--disable-sync",
+               f"--user-data-dir={profile}", "--dump-dom", url]
+        proc = subprocess.run(cmd, capture_output=True, text=True, timeout=timeout_s)
+    if proc.returncode != 0:
+        raise RuntimeError(f"chromium failed (exit {proc.returncode}): {proc.stderr.strip()[-300:]}")
+    return proc.stdout
+
+
 def main(argv=None) -> int:
     ap = argparse.ArgumentParser(description=__doc__.split("\n\n")[0])
     ap.add_argument("index", help="the index.html of a batch output folder")

@@ -4,7 +4,8 @@ The page needs no server and no network: CSS and the small sorting/filtering
 script are inline, and images and JSON files are linked by relative paths in
 the same output folder, so the folder can be copied or zipped as a whole.
 It shows the usual cautions first, then the margins table (click a header to
-sort, filter by family and minimum confidence), a thumbnail per line linking
+sort, filter by family and minimum confidence; a link can preset both, e.g.
+``index.html#family=ramp&conf=0.5&sort=slope_max_deg``), a thumbnail per line linking
 to its QC figure and result JSON, the summary and map figures, and the
 errors.  Every piece of text taken from input files or results is escaped
 with :func:`html.escape`.
@@ -88,7 +89,15 @@ _JS = r"""
       var ok=(f===''||r.getAttribute('data-family')===f)&&(parseFloat(r.getAttribute('data-confidence'))||0)>=c;
       r.style.display=ok?'':'none'; if(ok) n++;});
     shown.textContent=n;}
-  fam.addEventListener('change',filter); conf.addEventListener('input',filter); filter();
+  fam.addEventListener('change',filter); conf.addEventListener('input',filter);
+  // a link may preset the view: index.html#family=ramp&conf=0.5&sort=slope_max_deg
+  location.hash.replace(/^#/,'').split('&').forEach(function(kv){
+    var p=kv.split('='), v=decodeURIComponent(p[1]||'');
+    if(p[0]==='family') fam.value=v;
+    if(p[0]==='conf') conf.value=v;
+    if(p[0]==='sort'){for(var k=0;k<heads.length;k++){if(heads[k].getAttribute('data-key')===v) heads[k].click();}}
+  });
+  filter();
 })();
 """
 

@@ -43,3 +43,42 @@ def test_render_script_reports_a_missing_browser(tmp_path, monkeypatch, capsys):
     monkeypatch.setattr(shutil, "which", lambda name: None)
     assert mod.main([str(tmp_path / "index.html")]) == 1
     assert "no Chromium found" in capsys.readouterr().err
+
+
+@pytest.mark.requires_chromium
+def test_review_page_filter_and_sort_run_in_chromium(tmp_path):
+    mod = _script()
+    if mod.find_browser() is None:
+        pytest.skip("no Chromium on the PATH")
+    from html.parser import HTMLParser
+
+    margins = [{"stem": f"l{i}", "family": fam, "confidence": conf, "slope_max_deg": slope}
+               for i, (fam, conf, slope) in enumerate([("ramp", 0.9, 1.5), ("steep_margin", 0.95, 40.0),
+                                                        ("ramp", 0.3, 0.5), ("ramp", 0.7, 2.5)])]
+    page = write_index(tmp_path / "index.html", margins=margins, lines=[], errors=[])
+    dom = mod.dump_dom(page.resolve().as_uri() + "#family=ramp&conf=0.5&sort=slope_max_deg")
+
+    class Rows(HTMLParser):
+        def __init__(self):
+            super().__init__()
+            self.rows, self.shown = [], None
+            self._span = False
+
+        def handle_starttag(self, tag, attrs):
+            a = dict(attrs)
+            if tag == "tr" and "data-family" in a:
+                self.rows.append((a["data-family"], float(a["data-confidence"]), a.get("style") or ""))
+            self._span = tag == "span" and a.get("id") == "n-shown"
+
+        def handle_data(self, data):
+            if self._span:
+                self.shown = data.strip()
+                self._span = False
+
+    p = Rows()
+    p.feed(dom)
+    visible = [(f, c) for f, c, style in p.rows if "display: none" not in style]
+    # ramps with confidence >= 0.5, in increasing maximum slope (1.5 then 2.5 deg)
+    assert visible == [("ramp", 0.9), ("ramp", 0.7)]
+    assert [c for _, c, _ in p.rows] == [0.3, 0.9, 0.7, 0.95]  # whole table sorted by slope, hidden rows kept
+    assert p.shown == "2"
