@@ -183,13 +183,19 @@ def _face_unconfirmed(cand, z_index, dip_deg, coh, period_samples):
     return ""
 
 
-def _cuts_layering(cand, z_index, dip, coh):
-    """Reason why a candidate's foreset cuts across coherent layering, or ''."""
+def _cuts_layering(cand, z_index, dip, coh, period_samples):
+    """Reason why a candidate's foreset cuts across coherent layering, or ''.
+
+    Only judged where the foreset is not spatially aliased (steps below half
+    a period per trace): there the structure-tensor dip is reliable.
+    """
     ends = [v for v in (cand.shelf_break, cand.toe) if v is not None] + [cand.steepest]
     fs = np.arange(min(ends), max(ends) + 1)
     if fs.size < 3:
         return ""
     step = np.gradient(z_index)[fs]
+    if np.median(np.abs(step)) >= 0.5 * period_samples:
+        return ""
     zi = np.clip(np.round(z_index[fs]).astype(int), 0, dip.shape[1] - 1)
     d = dip[fs, zi]
     c = coh[fs, zi]
@@ -344,7 +350,10 @@ def pick_default(
         q = p.quality * (0.5 + 0.5 * coh[rows, zi])
         zs_list.append(zs)
         q_list.append(q)
-        depth_list.append(to_depth(section, rows, zs, velocity))
+        # margins are judged on the raw picks (a jump between reflectors
+        # must stay a jump); horizons carry the regularised surface
+        raw = np.interp(p.z_index, np.arange(z_axis.size), z_axis)
+        depth_list.append(to_depth(section, rows, raw, velocity))
 
     cands = []
     for p, dep, q in zip(paths, depth_list, q_list):
@@ -353,7 +362,7 @@ def pick_default(
             if p.rank in face_ranks:
                 why = _face_unconfirmed(c, p.z_index, dip_deg, coh, period_samples)
             else:
-                why = _cuts_layering(c, p.z_index, dip, coh)
+                why = _cuts_layering(c, p.z_index, dip, coh, period_samples)
             if why:
                 logger.debug("surface %d candidate at %s rejected: %s", p.rank, c.leg, why)
                 continue

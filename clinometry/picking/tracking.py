@@ -170,7 +170,7 @@ def track_paths(
     period_samples: float,
     max_jump_samples: float,
     n_paths: int = 8,
-    jump_cost_per_period: float = 0.3,
+    jump_cost_per_period: float = 0.6,
     dip_cost_per_period: float = 1.5,
     dip=None,
     coherence=None,
