@@ -1,0 +1,70 @@
+"""Conditioning: dead traces, gain balancing, envelope, dominant period."""
+
+import numpy as np
+import pytest
+from numpy.testing import assert_allclose
+
+from clinometry.picking.condition import balance_traces, condition, dead_trace_mask, dominant_period, envelope, fill_dead_traces
+
+
+def test_dead_trace_mask_finds_zero_nan_and_constant_traces():
+    rng = np.random.default_rng(3)
+    d = rng.standard_normal((6, 50))
+    d[1] = 0.0
+    d[3] = np.nan
+    d[4] = 7.0  # constant: no signal
+    expected = [False, True, False, True, True, False]
+    assert dead_trace_mask(d).tolist() == expected
+
+
+def test_dead_trace_mask_adds_known_dead_traces():
+    d = np.random.default_rng(4).standard_normal((4, 20))
+    assert dead_trace_mask(d, known_dead=[2, 99]).tolist() == [False, False, True, False]
+
+
+def test_fill_dead_traces_interpolates_linearly_between_live_neighbours():
+    d = np.zeros((5, 3))
+    d[0] = 1.0
+    d[4] = 5.0
+    out = fill_dead_traces(d, [False, True, True, True, False])
+    # linear interpolation between traces 0 and 4 (common practice, no source)
+    assert_allclose(out[:, 0], [1.0, 2.0, 3.0, 4.0, 5.0])
+    assert d[2, 0] == 0.0  # input untouched
+
+
+def test_balance_traces_removes_a_gain_step_along_the_line():
+    rng = np.random.default_rng(5)
+    base = rng.standard_normal((80, 100))
+    gain = np.where(np.arange(80) < 40, 1.0, 20.0)[:, None]
+    bal = balance_traces(base * gain, window_traces=11)
+    rms = np.sqrt(np.mean(bal**2, axis=1))
+    # after balancing the two halves have the same RMS within sampling scatter
+    assert rms[:35].mean() == pytest.approx(rms[45:].mean(), rel=0.1)
+
+
+def test_envelope_of_a_cosine_is_its_amplitude():
+    # |cos + i sin| = 1: the analytic signal of a cosine (Taner et al. 1979, from memory)
+    t = np.arange(256)
+    e = envelope(3.0 * np.cos(2 * np.pi * t / 16.0)[None, :])
+    assert_allclose(e[0, 32:-32], 3.0, rtol=1e-3)
+
+
+@pytest.mark.parametrize("f_hz", [15.0, 25.0, 40.0])
+def test_dominant_period_of_a_ricker_wavelet_is_one_over_its_peak_frequency(f_hz, ricker):
+    # the amplitude spectrum of a Ricker wavelet peaks at its peak frequency (Ricker 1953, from memory)
+    dt = 2.0
+    tr = np.zeros(512)
+    w = ricker(f_hz, dt)
+    tr[200 : 200 + w.size] = w
+    assert dominant_period(tr[None, :], dt) == pytest.approx(1000.0 / f_hz, rel=0.06)
+
+
+def test_condition_reports_dead_traces_and_keeps_input():
+    rng = np.random.default_rng(6)
+    d = rng.standard_normal((10, 64)).astype(np.float32)
+    d[2] = 0.0
+    before = d.copy()
+    c = condition(d, 2.0)
+    assert c.dead.tolist() == [i == 2 for i in range(10)]
+    assert "1 dead trace" in c.notes[0]
+    np.testing.assert_array_equal(d, before)

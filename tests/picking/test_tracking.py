@@ -1,0 +1,52 @@
+"""Minimum-cost paths against exhaustive search."""
+
+import itertools
+
+import numpy as np
+import pytest
+
+from clinometry.picking.tracking import min_cost_path, track_paths
+
+
+def _brute_force(cost, max_jump, jump_cost):
+    n, m = cost.shape
+    best, arg = np.inf, None
+    for path in itertools.product(range(m), repeat=n):
+        steps = np.abs(np.diff(path))
+        if np.any(steps > max_jump):
+            continue
+        total = cost[np.arange(n), path].sum() + jump_cost * steps.sum()
+        if total < best - 1e-9:
+            best, arg = total, path
+    return best, arg
+
+
+@pytest.mark.parametrize("seed", [0, 1, 2, 3])
+def test_min_cost_path_matches_exhaustive_search(seed):
+    # dynamic programming is exact (Bellman 1957, from memory): same total cost as trying every path
+    rng = np.random.default_rng(seed)
+    cost = rng.random((5, 6)).astype(np.float32)
+    best, _ = _brute_force(cost, 2, 0.15)
+    path = min_cost_path(cost, max_jump=2, jump_cost=0.15)
+    total = cost[np.arange(5), path].sum() + 0.15 * np.abs(np.diff(path)).sum()
+    assert total == pytest.approx(best, abs=1e-5)
+    assert np.all(np.abs(np.diff(path)) <= 2)
+
+
+def test_min_cost_path_follows_a_dipping_line_with_dip_guidance():
+    n, m = 40, 80
+    cost = np.ones((n, m), np.float32)
+    truth = (10 + 1.5 * np.arange(n)).round().astype(int)
+    cost[np.arange(n), truth] = 0.0
+    dip = np.full((n, m), 1.5, np.float32)
+    path = min_cost_path(cost, max_jump=3, jump_cost=0.05, dip=dip, dip_cost=np.full((n, m), 0.5, np.float32))
+    np.testing.assert_array_equal(path, truth)
+
+
+def test_track_paths_finds_two_flat_reflectors_strongest_first():
+    env = np.zeros((50, 200), np.float32)
+    env[:, 60] = 2.0
+    env[:, 140] = 1.0
+    paths = track_paths(env, env, period_samples=8.0, max_jump_samples=4.0, n_paths=2)
+    assert [round(float(np.median(p.z_index))) for p in paths] == [60, 140]
+    assert paths[0].quality.min() > 0.9
