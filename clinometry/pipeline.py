@@ -385,6 +385,32 @@ def measure(
     HorizonFileError
         The CSV cannot be read or does not match the section (names the
         file, row and column).
+
+    See Also
+    --------
+    analyze : the same with the automatic picker.
+    read_horizon_csv : how a CSV horizon is matched to the traces.
+
+    Notes
+    -----
+    The horizon is interpolated onto every trace of its span and converted
+    to depth; direction, break and toe are then found with
+    :func:`clinometry.picking.margins.profile_candidates`, the same analysis
+    the automatic picker applies to its own surfaces.
+
+    Examples
+    --------
+    A flat top at 400 ms, a foreset of 20 degrees true dip at 2500 m/s
+    (time dip 2 tan(20 deg) / 2500 m/s = 0.2912 ms/m), and a flat basin floor:
+
+    >>> from clinometry.section import make_section
+    >>> x = np.arange(120) * 25.0
+    >>> z = 400.0 + np.clip((x - 1000.0) * 0.2912, 0.0, 300.0)
+    >>> sec = make_section(np.zeros((120, 400), "float32"), z=np.arange(400) * 2.0, trace_spacing_m=25.0)
+    >>> h = Horizon(id=0, role="user", trace=np.arange(120), z=z, quality=np.ones(120))
+    >>> m = measure(h, sec, velocity=2500.0, uncertainty=False).to_dict()["margins"][0]
+    >>> m["direction"], round(m["slope_max_deg"]), abs(m["relief_m"] - 375.0) < 20.0  # 300 ms * 2500 / 2000
+    ('+', 20, True)
     """
     return analyze_full(
         section,

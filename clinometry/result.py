@@ -147,7 +147,8 @@ class Result:
         ``"default_fallback": True`` when no velocity was given and the
         package default was used.  ``{"model": "none"}`` for depth sections.
     picks : Picks or None
-        None when the result was re-read from JSON and had no margins.
+        A result re-read from JSON has the margin picks (break, toe,
+        clinoform breaks) but no horizon arrays.
     metrics : Metrics
         One :class:`MarginMetrics` per margin.
     classifications : tuple of Classification
@@ -156,12 +157,20 @@ class Result:
         How the run was made: ``clinometry_version``, ``picker``,
         ``picker_parameters``, ``classifier``, ``thresholds_source``,
         ``thresholds``, ``metrics_plugins``, ``uncertainty``, ``seed``,
-        ``fallbacks``, ``warnings``, ``notes``, ``horizon_source`` ... .
+        ``fallbacks`` (section attrs plus the velocity default), ``notes``, ``cautions``, ``horizon_source`` ... .
 
     See Also
     --------
     clinometry.pipeline.analyze : builds a Result from a file or section.
     validate_result_dict : checks a dict against the contract.
+
+    Examples
+    --------
+    >>> r = Result(source={"path": "a.sgy", "n_traces": 3, "n_samples": 4, "domain": "depth"},
+    ...            velocity={"model": "none"}, picks=None, metrics=Metrics())
+    >>> d = r.to_dict()
+    >>> d["schema_version"], d["margins"], Result.from_dict(d).to_dict() == d
+    (1, [], True)
     """
 
     source: dict
