@@ -1,4 +1,4 @@
-"""QC, summary and map figures (matplotlib, Agg backend, imported on use).
+"""QC, summary and map figures (matplotlib Figure on an Agg canvas, imported on use).
 
 Three figures help an interpreter review automatic picks:
 
@@ -84,19 +84,22 @@ def _as_dict(result):
 def _save(fig, path):
     buf = io.BytesIO()
     fig.savefig(buf, format="png", dpi=110)
-    import matplotlib.pyplot as plt
-
-    plt.close(fig)
     return atomic_write(path, buf.getvalue())
 
 
-def _pyplot():
-    import matplotlib
+def _figure(figsize):
+    """A matplotlib Figure on its own Agg canvas.
 
-    matplotlib.use("Agg", force=False)
-    import matplotlib.pyplot as plt
+    pyplot is not used: no global backend switch in the caller's session,
+    no figure registry to leak, and figures can be drawn from worker threads
+    (a Dask worker runs tasks in threads).
+    """
+    from matplotlib.backends.backend_agg import FigureCanvasAgg
+    from matplotlib.figure import Figure
 
-    return plt
+    fig = Figure(figsize=figsize)
+    FigureCanvasAgg(fig)
+    return fig
 
 
 def _m_per_z(result, section):
@@ -305,8 +308,8 @@ def qc_figure(result, section, path, *, horizons=None, title=None):
     converting the time range to depth with the run's velocity and said to
     be approximate.
     """
-    plt = _pyplot()
     from matplotlib.lines import Line2D
+    from matplotlib.patches import Rectangle
 
     res = _as_dict(result)
     margins = list(res.get("margins", []) or [])
@@ -323,7 +326,7 @@ def qc_figure(result, section, path, *, horizons=None, title=None):
     clip = clip if clip > 0 else 1.0
 
     n_rows = 1 + max(1, len(margins))
-    fig = plt.figure(figsize=(13.0, 4.8 + 2.9 * max(1, len(margins))))
+    fig = _figure((13.0, 4.8 + 2.9 * max(1, len(margins))))
     gs = fig.add_gridspec(n_rows, 2, width_ratios=[2.4, 1.0], height_ratios=[1.7] + [1.0] * (n_rows - 1),
                           hspace=0.42, wspace=0.06, left=0.07, right=0.97, top=0.92, bottom=0.06)
     ax = fig.add_subplot(gs[0, 0])
@@ -433,7 +436,7 @@ def qc_figure(result, section, path, *, horizons=None, title=None):
         pax.tick_params(labelsize=_FONT_SIZE)
         tax = fig.add_subplot(gs[1 + i, 1])
         tax.axis("off")
-        tax.add_patch(plt.Rectangle((0.0, 0.93), 0.04, 0.06, color=color, transform=tax.transAxes, clip_on=False))
+        tax.add_patch(Rectangle((0.0, 0.93), 0.04, 0.06, color=color, transform=tax.transAxes, clip_on=False))
         tax.text(0.06, 1.0, _margin_text(m, i + 1), va="top", ha="left", fontsize=7.6, family="DejaVu Sans",
                  transform=tax.transAxes, linespacing=1.25)
     return _save(fig, path)
@@ -469,8 +472,8 @@ def summary_figure(rows, path, *, title="Margins of this run"):
     -------
     pathlib.Path
     """
-    plt = _pyplot()
-    fig, axes = plt.subplots(1, 2, figsize=(11.0, 4.2))
+    fig = _figure((11.0, 4.2))
+    axes = fig.subplots(1, 2)
     order = ["ramp", "rimmed_shelf", "steep_margin", None]
     for ax, key, label in ((axes[0], "slope_max_deg", "maximum slope (°)"), (axes[1], "relief_m", "relief (m)")):
         vals = _family_values(rows, key)
@@ -545,14 +548,14 @@ def map_figure(rows, path, *, title="Shelf-break map"):
         pts.append((x, y, float(d) if d not in (None, "") else np.nan, r.get("family") or None))
     if not pts:
         return None
-    plt = _pyplot()
     from matplotlib.lines import Line2D
 
     x = np.array([p[0] for p in pts])
     y = np.array([p[1] for p in pts])
     dep = np.array([p[2] for p in pts])
     fam = [p[3] for p in pts]
-    fig, axes = plt.subplots(1, 2, figsize=(12.0, 5.2))
+    fig = _figure((12.0, 5.2))
+    axes = fig.subplots(1, 2)
     for f in ["ramp", "rimmed_shelf", "steep_margin", None]:
         sel = np.array([g == f for g in fam])
         if sel.any():
