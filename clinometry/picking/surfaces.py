@@ -194,7 +194,7 @@ def _cuts_layering(cand, z_index, dip, coh, period_samples):
     if fs.size < 3:
         return ""
     step = np.gradient(z_index)[fs]
-    if np.median(np.abs(step)) >= 0.5 * period_samples:
+    if np.percentile(np.abs(step), 75) >= 0.5 * period_samples:
         return ""
     zi = np.clip(np.round(z_index[fs]).astype(int), 0, dip.shape[1] - 1)
     d = dip[fs, zi]
@@ -206,6 +206,46 @@ def _cuts_layering(cand, z_index, dip, coh, period_samples):
     if np.median(miss) > max(1.0, 0.5 * np.median(np.abs(step[sure]))):
         return "the surface cuts across coherent reflectors of another dip (a jump between reflectors)"
     return ""
+
+
+def _choose_profile(g, core, paths, depth_list, face_ranks, period_samples):
+    """The outer surface of a margin group: the shallowest strong candidate
+    (youngest clinoform); a tracked reflection near a face is preferred."""
+    best_q = max(m.foreset_quality for m in g)
+    strong = [m for m in g if m.foreset_quality >= 0.6 * best_q]
+    profile = min(strong, key=lambda m: float(np.mean(depth_list[m.path_rank][core])))
+    if profile.path_rank in face_ranks:
+        lo_f, hi_f = _foreset_span(profile)
+        fz = paths[profile.path_rank].z_index[lo_f : hi_f + 1]
+        near = [
+            m
+            for m in strong
+            if m.path_rank not in face_ranks
+            and np.mean(np.abs(paths[m.path_rank].z_index[lo_f : hi_f + 1] - fz)) <= period_samples
+        ]
+        if near:
+            profile = max(near, key=lambda m: m.foreset_quality)
+    return profile
+
+
+def _drop_buried(chosen, paths, period_samples, notes):
+    """A margin's break must lie on the outer surface: drop one whose break
+    is buried more than a period beneath the profile of a more confident
+    margin (it is a surface inside the body, not a margin)."""
+    keep = []
+    for item in sorted(chosen, key=lambda c: -c[3].confidence):
+        prof = item[3]
+        t = prof.shelf_break if prof.shelf_break is not None else prof.steepest
+        z_here = paths[prof.path_rank].z_index[t]
+        buried = [k for k in keep if paths[k[3].path_rank].z_index[t] < z_here - period_samples]
+        if buried:
+            notes.append(
+                f"margin facing {prof.direction} at trace {t} dropped: it lies beneath the profile of the "
+                f"more confident margin facing {buried[0][3].direction}"
+            )
+            continue
+        keep.append(item)
+    return keep
 
 
 def _foreset_span(m):
@@ -387,27 +427,14 @@ def pick_default(
     margins = []
     used_ranks = {}
     next_id = 0
-    for g in sorted(groups, key=lambda g: min(g[0].leg)):
+    chosen = []
+    for g in groups:
         span = (min(min(m.leg) for m in g), max(max(m.leg) for m in g))
         steep = [m.steepest for m in g]
         core = slice(min(steep), max(steep) + 1)
-        best_q = max(m.foreset_quality for m in g)
-        strong = [m for m in g if m.foreset_quality >= 0.6 * best_q]
-        # the outer surface (youngest clinoform) is the shallowest strong one
-        profile = min(strong, key=lambda m: float(np.mean(depth_list[m.path_rank][core])))
-        if profile.path_rank in face_ranks:
-            # a tracked reflection within a period of the face along its
-            # foreset is the better pick of the same surface
-            lo_f, hi_f = _foreset_span(profile)
-            fz = paths[profile.path_rank].z_index[lo_f : hi_f + 1]
-            near = [
-                m
-                for m in strong
-                if m.path_rank not in face_ranks
-                and np.mean(np.abs(paths[m.path_rank].z_index[lo_f : hi_f + 1] - fz)) <= period_samples
-            ]
-            if near:
-                profile = max(near, key=lambda m: m.foreset_quality)
+        chosen.append((g, span, core, _choose_profile(g, core, paths, depth_list, face_ranks, period_samples)))
+    chosen = _drop_buried(chosen, paths, period_samples, notes)
+    for g, span, core, profile in sorted(chosen, key=lambda c: c[1][0]):
         conf = profile.confidence
         if conf < min_confidence:
             notes.append(
@@ -416,7 +443,13 @@ def pick_default(
             )
             continue
         # clinoforms: every surface of the group, oldest (deepest) first
-        ordered = sorted(g, key=lambda m: -float(np.mean(depth_list[m.path_rank][core])))
+        # only surfaces beneath the outer profile along its foreset are its
+        # older clinoforms (superposition); a surface above it lies in the fill
+        lo_p, hi_p = _foreset_span(profile)
+        span_p = slice(lo_p, hi_p + 1)
+        prof_z = float(np.mean(paths[profile.path_rank].z_index[span_p]))
+        below = [m for m in g if float(np.mean(paths[m.path_rank].z_index[span_p])) >= prof_z - 1.0]
+        ordered = sorted(below, key=lambda m: -float(np.mean(depth_list[m.path_rank][core])))
         clinos = []
         for m in ordered:
             if m.path_rank not in used_ranks:

@@ -124,8 +124,8 @@ def make_test_line(
         np.add.at(refl, (rows[ok], i0 + 1), rc * w)
     if domain == "twt":
         wav = ricker(f_hz, dt_ms)
-    else:  # a depth-domain wavelet: the Ricker stretched by v/2 per unit time
-        wav = ricker(f_hz * v_m_s / 2000.0, dt_ms)
+    else:  # a depth-domain wavelet: period v / (2 f) in m, i.e. 2000 f / v cycles per 1000 m
+        wav = ricker(2000.0 * f_hz / v_m_s, dt_ms)
     data = signal.fftconvolve(refl, wav[None, :], mode="same", axes=1)
     if snr is not None and np.isfinite(snr):
         noise = signal.fftconvolve(rng.standard_normal(data.shape), wav[None, :], mode="same", axes=1)
