@@ -1,0 +1,82 @@
+"""Shared look of the report figures: palette, marker styles, figure helpers.
+
+Colours come from the Okabe-Ito palette, chosen because it stays
+distinguishable for the common forms of colour-vision deficiency [1]_.
+Figures are matplotlib :class:`~matplotlib.figure.Figure` objects on their
+own Agg canvas (no pyplot), so drawing never switches the caller's backend
+and works from worker threads.
+
+References
+----------
+.. [1] Okabe, M. & Ito, K. (2008). Color Universal Design (CUD): how to make
+   figures and presentations that are friendly to colorblind people.
+   https://jfly.uni-koeln.de/color/ (from memory)
+"""
+
+from __future__ import annotations
+
+import io
+
+from .files import atomic_write
+
+__all__ = ["OKABE_ITO", "FAMILY_COLORS", "ROLE_STYLES"]
+
+#: Okabe & Ito (2008) colour-blind-safe palette (from memory)
+OKABE_ITO = {
+    "black": "#000000",
+    "orange": "#E69F00",
+    "sky_blue": "#56B4E9",
+    "bluish_green": "#009E73",
+    "yellow": "#F0E442",
+    "blue": "#0072B2",
+    "vermillion": "#D55E00",
+    "reddish_purple": "#CC79A7",
+}
+
+#: colour of each margin family (and of margins without a family)
+FAMILY_COLORS = {
+    "ramp": OKABE_ITO["bluish_green"],
+    "rimmed_shelf": OKABE_ITO["blue"],
+    "steep_margin": OKABE_ITO["vermillion"],
+    None: "#7f7f7f",
+}
+
+#: how each horizon role is drawn on the section: (colour, line width, label)
+ROLE_STYLES = {
+    "reflector": (OKABE_ITO["sky_blue"], 0.6, "tracked reflector"),
+    "margin_profile": (OKABE_ITO["orange"], 2.0, "margin profile"),
+    "platform_top": (OKABE_ITO["yellow"], 2.0, "platform top"),
+    "clinoform": (OKABE_ITO["reddish_purple"], 1.2, "clinoform"),
+    "user": (OKABE_ITO["bluish_green"], 1.5, "interpreter horizon"),
+}
+
+_BREAK_STYLE = dict(marker="v", s=90, color=OKABE_ITO["vermillion"], edgecolor="white", linewidth=1.0, zorder=6)
+_TOE_STYLE = dict(marker="^", s=90, color=OKABE_ITO["blue"], edgecolor="white", linewidth=1.0, zorder=6)
+_FONT_SIZE = 9
+#: most lines of text in a margin's text panel (fits the panel at 7.6 pt)
+_MAX_TEXT_LINES = 19
+
+
+def _as_dict(result):
+    return result.to_dict() if hasattr(result, "to_dict") else dict(result)
+
+
+def _save(fig, path):
+    buf = io.BytesIO()
+    fig.savefig(buf, format="png", dpi=110)
+    return atomic_write(path, buf.getvalue())
+
+
+def _figure(figsize):
+    """A matplotlib Figure on its own Agg canvas.
+
+    pyplot is not used: no global backend switch in the caller's session,
+    no figure registry to leak, and figures can be drawn from worker threads
+    (a Dask worker runs tasks in threads).
+    """
+    from matplotlib.backends.backend_agg import FigureCanvasAgg
+    from matplotlib.figure import Figure
+
+    fig = Figure(figsize=figsize)
+    FigureCanvasAgg(fig)
+    return fig
