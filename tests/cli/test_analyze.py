@@ -162,3 +162,18 @@ def test_depth_domain_file_needs_no_velocity(synthetic_shelf, tmp_path, capsys):
     code, _, err = _run(capsys, ["analyze", str(path), "--domain", "depth", "--velocity", "2500",
                                  "--out", str(tmp_path / "out")])
     assert code == 2 and err.startswith("clinometry: error: ") and err.count("\n") == 1
+
+
+CUBE = Path(__file__).resolve().parents[2] / "synthetic_volumes" / "curved_margin_cube.sgy"
+
+
+@pytest.mark.skipif(not CUBE.exists(), reason="synthetic_volumes/ not present")
+def test_inline_of_3d_volume_gets_its_own_stem(tmp_path, capsys):
+    code, out, err = _run(capsys, ["analyze", str(CUBE), "--inline", "120", "--velocity", "2500",
+                                   "--no-uncertainty", "--no-plot", "--out", str(tmp_path)])
+    assert code == 0, err
+    d = json.loads((tmp_path / "curved_margin_cube_il120.json").read_text())
+    # the cube has 120 crosslines per inline (synthetic_volumes/README.md)
+    assert (d["source"]["inline"], d["source"]["line_label"], d["source"]["n_traces"]) == (120, "inline 120", 120)
+    code, out, err = _run(capsys, ["analyze", str(CUBE), "--out", str(tmp_path)])
+    assert code == 2 and "curved_margin_cube.sgy" in err and err.count("\n") == 1
