@@ -228,3 +228,17 @@ def test_bundled_line_family_and_trajectory_match_truth(name):
                      f" vs truth {[(t['direction'], t['family'], (t.get('trajectory') or {}).get('class')) for t in truth['margins']]}"
                      " (picker/metric accuracy is tracked in issue 6)")
     assert got == exp
+
+
+def test_thresholds_toml_override_changes_family_and_is_recorded(tmp_path):
+    sec, h = _foreset_horizon(dip_deg=20.0)
+    base = measure(h, sec, velocity=V_M_S, uncertainty=False).to_dict()
+    toml = tmp_path / "my_limits.toml"
+    toml.write_text("[thresholds]\nsteep_min_slope_deg = 15.0\ndistal_steepening_max_slope_deg = 10.0\n")
+    d = measure(h, sec, velocity=V_M_S, uncertainty=False, thresholds=toml).to_dict()
+    # a 20 degree foreset: below the default steep-margin bound (30 deg, Schlager & Ginsburg 1981;
+    # Kenter 1990, from memory), above the 15 deg bound given in the file
+    assert base["margins"][0]["family"] == "rimmed_shelf"
+    assert d["margins"][0]["family"] == "steep_margin"
+    assert d["run"]["thresholds_source"] == str(toml)
+    assert d["run"]["thresholds"]["steep_min_slope_deg"] == 15.0
