@@ -138,22 +138,21 @@ def _velocity_model(section, *, velocity, velocity_linear, velocity_file, veloci
 
 
 def _thresholds(thresholds):
-    """(value to pass to classify, source text for the record)."""
+    """(full threshold table to pass to classify, source text for the record)."""
+    from .classify.thresholds import check_thresholds, default_thresholds, load_thresholds
+
     if thresholds is None:
-        return None, "built-in table (clinometry.classify.thresholds.DEFAULT_THRESHOLDS)"
+        return default_thresholds(), "built-in table (clinometry.classify.thresholds.DEFAULT_THRESHOLDS)"
     if isinstance(thresholds, (str, os.PathLike)):
-        from .classify.thresholds import load_thresholds
-
         return load_thresholds(thresholds), str(thresholds)
-    return dict(thresholds), "mapping given by the caller"
+    return check_thresholds(thresholds, where="thresholds"), "mapping given by the caller"
 
 
-def _finish(section, path, picks, model, vdict, fallback, *, classifier, thresholds, uncertainty, seed,
-            metrics_plugins, run_extra, notes):
+def _finish(section, path, picks, model, vdict, fallback, *, classifier, table, thresholds_source, uncertainty,
+            seed, metrics_plugins, run_extra, notes):
     from .classify import classify
     from .metrics import measure as measure_metrics
 
-    table, thresholds_source = _thresholds(thresholds)
     metrics = measure_metrics(
         picks, section, velocity=model, metrics=metrics_plugins, uncertainty=uncertainty, seed=seed
     )
@@ -170,7 +169,7 @@ def _finish(section, path, picks, model, vdict, fallback, *, classifier, thresho
         "picker_parameters": picks.parameters,
         "classifier": classifier,
         "thresholds_source": thresholds_source,
-        "thresholds": classes[0].thresholds if classes else (table or {}),
+        "thresholds": dict(table),
         "metrics_plugins": list(metrics_plugins) if metrics_plugins is not None else "all installed",
         "uncertainty": dict(metrics.uncertainty_settings),
         "seed": int(seed),
@@ -234,6 +233,8 @@ def analyze_full(
         section, velocity=velocity, velocity_linear=velocity_linear, velocity_file=velocity_file,
         velocity_kind=velocity_kind,
     )
+    # checked before the long work starts, so a bad TOML fails fast
+    table, thresholds_source = _thresholds(thresholds)
     if horizons is not None:
         horizon = horizons
         if not isinstance(horizon, Horizon):
@@ -247,7 +248,7 @@ def analyze_full(
         run_extra = {"horizon_source": "automatic"}
     result = _finish(
         section, path, picks, model, vdict, fallback,
-        classifier=classifier, thresholds=thresholds, uncertainty=uncertainty, seed=seed,
+        classifier=classifier, table=table, thresholds_source=thresholds_source, uncertainty=uncertainty, seed=seed,
         metrics_plugins=metrics, run_extra=run_extra, notes=(),
     )
     logger.info("%s: %d margin(s)", section_name(section), result.n_margins)
