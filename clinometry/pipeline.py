@@ -32,6 +32,7 @@ from pathlib import Path
 import numpy as np
 import xarray as xr
 
+from ._plugins import load_plugin
 from .errors import ClinometryError, HorizonFileError
 from .picking.picks import Horizon, Picks
 from .result import Result
@@ -233,8 +234,9 @@ def analyze_full(
         section, velocity=velocity, velocity_linear=velocity_linear, velocity_file=velocity_file,
         velocity_kind=velocity_kind,
     )
-    # checked before the long work starts, so a bad TOML fails fast
+    # checked before the long work starts, so a bad TOML or plugin name fails fast
     table, thresholds_source = _thresholds(thresholds)
+    load_plugin("classifier", classifier)
     if horizons is not None:
         horizon = horizons
         if not isinstance(horizon, Horizon):

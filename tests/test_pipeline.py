@@ -242,3 +242,11 @@ def test_thresholds_toml_override_changes_family_and_is_recorded(tmp_path):
     assert d["margins"][0]["family"] == "steep_margin"
     assert d["run"]["thresholds_source"] == str(toml)
     assert d["run"]["thresholds"]["steep_min_slope_deg"] == 15.0
+
+
+def test_unknown_classifier_fails_before_picking_and_lists_installed():
+    from clinometry.errors import PluginError
+
+    sec, h = _foreset_horizon()
+    with pytest.raises(PluginError, match=r"no classifier plugin named 'nope'; installed: .*rules"):
+        measure(h, sec, velocity=V_M_S, classifier="nope")
