@@ -100,16 +100,17 @@ def _true_dip_deg(section, velocity, dip_samples, dx_m):
 
 
 #: a surface is regularised by a running median over this many wavelengths
-#: and a Gaussian (sigma) of half of it, to remove single-trace jumps between
+#: and a Gaussian with a sigma of REGULARISE_SIGMA_WAVELENGTHS, to remove single-trace jumps between
 #: wavelet lobes without flattening slopes (common practice, no source)
 REGULARISE_WAVELENGTHS = 1.0
+REGULARISE_SIGMA_WAVELENGTHS = 0.5
 
 
 def _regularise(z_index, wavelength_traces):
     """Running median then Gaussian along the line (sizes from the wavelength)."""
     size = int(max(3, 2 * round(REGULARISE_WAVELENGTHS * wavelength_traces / 2) + 1))
     med = ndimage.median_filter(z_index, size=size, mode="nearest")
-    return ndimage.gaussian_filter1d(med, max(0.5, REGULARISE_WAVELENGTHS * wavelength_traces / 2), mode="nearest")
+    return ndimage.gaussian_filter1d(med, max(0.5, REGULARISE_SIGMA_WAVELENGTHS * wavelength_traces), mode="nearest")
 
 
 def _envelope_quality(env, dead):
