@@ -50,12 +50,12 @@ from dataclasses import dataclass
 import numpy as np
 from scipy import ndimage, signal
 
+from ..depth import DEFAULT_VELOCITY_M_S, ConstantVelocity, horizon_to_depth
+
 __all__ = ["MarginCandidate", "profile_candidates", "to_depth", "velocity_at"]
 
 logger = logging.getLogger(__name__)
 
-#: fallback velocity until a model is given (m/s); the run records it
-_FALLBACK_VELOCITY_M_S = 2500.0
 #: a top counts as flat when its gradient is below this fraction of the
 #: steepest foreset gradient (common practice, no source)
 TOP_FLATNESS_FRACTION = 0.5
@@ -75,41 +75,27 @@ SLOPE_WIDTH_SMOOTHING_DIVISOR = 8.0
 MIN_FORESET_PICKED = 0.6
 
 
-def _default_velocity():
-    try:
-        from ..depth import DEFAULT_VELOCITY_M_S
-    except ImportError:  # the depth module is being written in parallel
-        return _FALLBACK_VELOCITY_M_S
-    return float(DEFAULT_VELOCITY_M_S)
-
-
 def to_depth(section, trace, z, velocity):
     """Depth (m) of points given as trace index and z in section units.
 
     Uses :func:`clinometry.depth.horizon_to_depth`; identity for depth
     sections.  ``velocity`` may be a velocity model, a number (m/s,
-    constant) or None (the package default constant velocity).
+    constant) or None (:data:`clinometry.depth.DEFAULT_VELOCITY_M_S`).
     """
     z = np.asarray(z, dtype=float)
     if section.attrs.get("domain") == "depth":
         return z.copy()
     if velocity is None:
-        velocity = _default_velocity()
+        velocity = DEFAULT_VELOCITY_M_S
     if isinstance(velocity, (int, float)):
-        try:
-            from ..depth import ConstantVelocity
-        except ImportError:
-            return z * 1e-3 * float(velocity) / 2.0
         velocity = ConstantVelocity(float(velocity))
-    from ..depth import horizon_to_depth
-
     return np.asarray(horizon_to_depth(section, np.asarray(trace), z, velocity), dtype=float)
 
 
 def velocity_at(section, velocity, z):
     """Interval velocity (m/s) at z (section units); a number for depth sections too."""
     if velocity is None:
-        return _default_velocity()
+        return float(DEFAULT_VELOCITY_M_S)
     if isinstance(velocity, (int, float)):
         return float(velocity)
     z = np.atleast_1d(np.asarray(z, dtype=float))
