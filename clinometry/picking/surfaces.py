@@ -12,6 +12,10 @@ Steps (each in its own module, explained there):
 4. :mod:`~clinometry.picking.margins`: each surface in depth, margin legs,
    steepest point, break and toe from curvature; candidates from several
    surfaces grouped into margins with their clinoforms.
+5. :mod:`~clinometry.picking.faces` and :mod:`~clinometry.picking.assemble`:
+   where a basin fill onlaps the slope, the slope face is found from the
+   coherent dip field and joined to the platform top and basin floor; the
+   outer profile of each margin is chosen and inconsistent margins dropped.
 
 All lengths derive from the dominant wavelength of the data and the
 velocity, never from trace or sample counts, so the picker behaves the same
@@ -23,7 +27,6 @@ from __future__ import annotations
 import logging
 
 import numpy as np
-from scipy import ndimage
 
 from ..errors import PickingError
 from ..section import check_section, section_name
@@ -31,8 +34,21 @@ from .condition import condition
 from .faces import slope_faces
 from .margins import profile_candidates, to_depth, velocity_at
 from .orientation import reflector_orientation
+from .assemble import (
+    FACE_MIN_DIP_DEG,
+    choose_profile,
+    cuts_layering,
+    drop_buried,
+    drop_opposed,
+    envelope_quality,
+    face_profile,
+    face_unconfirmed,
+    foreset_span,
+    regularise,
+    true_dip_deg,
+)
 from .picks import ClinoformPicks, Horizon, MarginPicks, PickPoint, Picks
-from .tracking import TrackedPath, track_paths
+from .tracking import track_paths
 
 __all__ = ["pick_default"]
 
@@ -79,198 +95,6 @@ def _horizon_pieces(zs, q, min_len, start_id, z_axis):
         if piece.size >= min_len:
             out.append((piece, np.interp(zs[piece], np.arange(z_axis.size), z_axis), q[piece]))
     return out
-
-
-#: coherent dips steeper than this (true degrees) mark a slope face
-#: (common practice, no source)
-FACE_MIN_DIP_DEG = 3.0
-#: reflections below a face must dip at least this fraction of its slope
-#: (common practice, no source)
-FACE_DIP_AGREEMENT = 0.4
-
-
-def _true_dip_deg(section, velocity, dip_samples, dx_m):
-    """True dip (degrees) from dip in samples per trace: tan = (v/2) dt/dx for TWT."""
-    dz = float(section.attrs["sample_interval"])
-    if section.attrs["domain"] == "depth":
-        return np.degrees(np.arctan(dip_samples * dz / dx_m)).astype(np.float32)
-    v = np.atleast_1d(velocity_at(section, velocity, section["z"].values)).astype(np.float32)
-    v = np.broadcast_to(v, (dip_samples.shape[1],))[None, :]
-    return np.degrees(np.arctan(0.5 * v * dip_samples * dz * 1e-3 / dx_m)).astype(np.float32)
-
-
-#: a surface is regularised by a running median over this many wavelengths
-#: and a Gaussian with a sigma of REGULARISE_SIGMA_WAVELENGTHS, to remove single-trace jumps between
-#: wavelet lobes without flattening slopes (common practice, no source)
-REGULARISE_WAVELENGTHS = 1.0
-REGULARISE_SIGMA_WAVELENGTHS = 0.5
-
-
-def _regularise(z_index, wavelength_traces):
-    """Running median then Gaussian along the line (sizes from the wavelength)."""
-    size = int(max(3, 2 * round(REGULARISE_WAVELENGTHS * wavelength_traces / 2) + 1))
-    med = ndimage.median_filter(z_index, size=size, mode="nearest")
-    return ndimage.gaussian_filter1d(med, max(0.5, REGULARISE_SIGMA_WAVELENGTHS * wavelength_traces), mode="nearest")
-
-
-def _envelope_quality(env, dead):
-    scale = float(np.percentile(env, 99.5)) or 1.0
-    e = np.clip(env / scale, 0.0, 1.0)
-    bg = float(np.median(e[~dead])) if (~dead).any() else 0.0
-    q = np.clip((e - bg) / max(1.0 - bg, 1e-6), 0.0, 1.0)
-    q[dead] = 0.0
-    return q
-
-
-def _face_profile(face, paths, e_q, coh, period_samples, *, rank):
-    """Profile through a slope face, continued landward and basinward along
-    the tracked surfaces that meet its two ends (within half a period)."""
-    n = e_q.shape[0]
-    rows = np.arange(n)
-    z = np.full(n, np.nan)
-    q = np.zeros(n)
-    z[face.trace] = face.z_index
-    zi = np.clip(np.round(face.z_index).astype(int), 0, e_q.shape[1] - 1)
-    q[face.trace] = e_q[face.trace, zi] * (0.5 + 0.5 * coh[face.trace, zi])
-    i0, i1 = int(face.trace[0]), int(face.trace[-1])
-    reach = max(3, int(round(2 * period_samples)))
-    half = max(1, face.trace.size // 2)
-    ends = (
-        (i0, slice(max(0, i0 - reach), i0), face.trace[:half], True),
-        (i1, slice(i1 + 1, i1 + 1 + reach), face.trace[-half:], False),
-    )
-    for end, near, join_zone, before in ends:
-        # the strongest surface within one period of the face end, judged
-        # just beyond the end (platform top landward, basin floor basinward)
-        close = [p for p in paths if abs(p.z_index[end] - z[end]) <= period_samples]
-        if not close:
-            continue
-        best = max(close, key=lambda p: float(np.mean(p.quality[near])) if p.quality[near].size else 0.0)
-        # join where the face meets the surface (within half a period),
-        # as far into the face as possible, so the profile has no step
-        gap = np.abs(best.z_index[join_zone] - z[join_zone])
-        meet = np.flatnonzero(gap <= 0.5 * period_samples)
-        if meet.size:
-            j = int(join_zone[meet[-1]] if before else join_zone[meet[0]])
-        else:
-            j = int(join_zone[np.argmin(gap)])
-        side = rows < j if before else rows > j
-        z[side] = best.z_index[side]
-        q[side] = best.quality[side]
-    good = np.isfinite(z)
-    z = np.interp(rows, rows[good], z[good])
-    return TrackedPath(z_index=z, quality=q, polarity="unknown", rank=rank)
-
-
-def _face_unconfirmed(cand, z_index, dip_deg, coh, period_samples):
-    """Reason why the reflections just below a face do not dip like it, or ''.
-
-    Foresets below a slope face run roughly parallel to it; a face whose
-    underlying coherent dips are much gentler than its own slope is an
-    artefact of the mask (common practice, no source).
-    """
-    lo, hi = _foreset_span(cand)
-    tr = np.arange(lo, hi + 1)
-    nz = dip_deg.shape[1]
-    below = np.clip(np.round(z_index[tr])[:, None] + np.arange(1, int(period_samples) + 2)[None, :], 0, nz - 1).astype(int)
-    d = np.abs(dip_deg[tr[:, None], below])
-    c = coh[tr[:, None], below]
-    sure = c >= 0.5
-    if sure.sum() < 3:
-        return "no coherent reflections below the face"
-    med = float(np.median(d[sure]))
-    if med < FACE_DIP_AGREEMENT * abs(cand.slope_max_deg):
-        return f"reflections below the face dip {med:.1f} deg, much less than its slope {cand.slope_max_deg:.1f} deg"
-    return ""
-
-
-def _cuts_layering(cand, z_index, dip, coh, period_samples):
-    """Reason why a candidate's foreset cuts across coherent layering, or ''.
-
-    Only judged where the foreset is not spatially aliased (steps below half
-    a period per trace): there the structure-tensor dip is reliable.
-    """
-    ends = [v for v in (cand.shelf_break, cand.toe) if v is not None] + [cand.steepest]
-    fs = np.arange(min(ends), max(ends) + 1)
-    if fs.size < 3:
-        return ""
-    step = np.gradient(z_index)[fs]
-    if np.percentile(np.abs(step), 75) >= 0.5 * period_samples:
-        return ""
-    zi = np.clip(np.round(z_index[fs]).astype(int), 0, dip.shape[1] - 1)
-    d = dip[fs, zi]
-    c = coh[fs, zi]
-    sure = c >= 0.6
-    if sure.sum() < 3:
-        return ""
-    miss = np.abs(step[sure] - d[sure])
-    if np.median(miss) > max(1.0, 0.5 * np.median(np.abs(step[sure]))):
-        return "the surface cuts across coherent reflectors of another dip (a jump between reflectors)"
-    return ""
-
-
-def _choose_profile(g, core, paths, depth_list, face_ranks, period_samples):
-    """The outer surface of a margin group: the shallowest strong candidate
-    (youngest clinoform); a tracked reflection near a face is preferred."""
-    best_q = max(m.foreset_quality for m in g)
-    strong = [m for m in g if m.foreset_quality >= 0.6 * best_q]
-    profile = min(strong, key=lambda m: float(np.mean(depth_list[m.path_rank][core])))
-    if profile.path_rank in face_ranks:
-        lo_f, hi_f = _foreset_span(profile)
-        fz = paths[profile.path_rank].z_index[lo_f : hi_f + 1]
-        near = [
-            m
-            for m in strong
-            if m.path_rank not in face_ranks
-            and np.mean(np.abs(paths[m.path_rank].z_index[lo_f : hi_f + 1] - fz)) <= period_samples
-        ]
-        if near:
-            profile = max(near, key=lambda m: m.foreset_quality)
-    return profile
-
-
-def _drop_buried(chosen, paths, period_samples, notes):
-    """A margin's break must lie on the outer surface: drop one whose break
-    is buried more than a period beneath the profile of a more confident
-    margin (it is a surface inside the body, not a margin)."""
-    keep = []
-    for item in sorted(chosen, key=lambda c: -c[3].confidence):
-        prof = item[3]
-        t = prof.shelf_break if prof.shelf_break is not None else prof.steepest
-        z_here = paths[prof.path_rank].z_index[t]
-        buried = [k for k in keep if paths[k[3].path_rank].z_index[t] < z_here - period_samples]
-        if buried:
-            notes.append(
-                f"margin facing {prof.direction} at trace {t} dropped: it lies beneath the profile of the "
-                f"more confident margin facing {buried[0][3].direction}"
-            )
-            continue
-        keep.append(item)
-    return keep
-
-
-def _foreset_span(m):
-    ends = [v for v in (m.shelf_break, m.toe) if v is not None] or [m.steepest]
-    return min(ends + [m.steepest]), max(ends + [m.steepest])
-
-
-def _drop_opposed(groups, notes):
-    """One slope cannot face both ways: of two opposite-facing margins whose
-    foresets overlap, keep the more confident."""
-    best = [max(g, key=lambda m: m.confidence) for g in groups]
-    keep = [True] * len(groups)
-    for i in range(len(groups)):
-        for j in range(len(groups)):
-            if i == j or not keep[i] or not keep[j] or best[i].direction == best[j].direction:
-                continue
-            (a0, a1), (b0, b1) = _foreset_span(best[i]), _foreset_span(best[j])
-            if min(a1, b1) >= max(a0, b0) and best[i].confidence >= best[j].confidence:
-                keep[j] = False
-                notes.append(
-                    f"margin facing {best[j].direction} at traces {b0}-{b1} dropped: its foreset overlaps "
-                    f"the more confident margin facing {best[i].direction} at traces {a0}-{a1}"
-                )
-    return [g for g, k in zip(groups, keep) if k]
 
 
 def pick_default(
@@ -369,8 +193,8 @@ def pick_default(
     )
     n = data.shape[0]
     rows = np.arange(n)
-    dip_deg = _true_dip_deg(section, velocity, dip, dx_m)
-    e_q = _envelope_quality(cond.envelope, cond.dead)
+    dip_deg = true_dip_deg(section, velocity, dip, dx_m)
+    e_q = envelope_quality(cond.envelope, cond.dead)
     faces = slope_faces(
         dip_deg,
         coh,
@@ -383,10 +207,10 @@ def pick_default(
     face_ranks = set()
     for f in faces:
         face_ranks.add(len(paths))
-        paths.append(_face_profile(f, paths, e_q, coh, period_samples, rank=len(paths)))
+        paths.append(face_profile(f, paths, e_q, coh, period_samples, rank=len(paths)))
     zs_list, depth_list, q_list = [], [], []
     for p in paths:
-        zs = np.interp(_regularise(p.z_index, wavelength / dx_m), np.arange(z_axis.size), z_axis)
+        zs = np.interp(regularise(p.z_index, wavelength / dx_m), np.arange(z_axis.size), z_axis)
         zi = np.clip(np.round(p.z_index).astype(int), 0, z_axis.size - 1)
         q = p.quality * (0.5 + 0.5 * coh[rows, zi])
         zs_list.append(zs)
@@ -401,9 +225,9 @@ def pick_default(
         for c in profile_candidates(dist, dep, q, path_rank=p.rank, smoothing_m=smoothing, min_relief_m=min_relief):
             # a face is built from the dip field itself; the test is for tracked surfaces
             if p.rank in face_ranks:
-                why = _face_unconfirmed(c, p.z_index, dip_deg, coh, period_samples)
+                why = face_unconfirmed(c, p.z_index, dip_deg, coh, period_samples)
             else:
-                why = _cuts_layering(c, p.z_index, dip, coh, period_samples)
+                why = cuts_layering(c, p.z_index, dip, coh, period_samples)
             if why:
                 logger.debug("surface %d candidate at %s rejected: %s", p.rank, c.leg, why)
                 continue
@@ -423,7 +247,7 @@ def pick_default(
         else:
             groups.append([c])
 
-    groups = _drop_opposed(groups, notes)
+    groups = drop_opposed(groups, notes)
     horizons = []
     margins = []
     used_ranks = {}
@@ -433,8 +257,8 @@ def pick_default(
         span = (min(min(m.leg) for m in g), max(max(m.leg) for m in g))
         steep = [m.steepest for m in g]
         core = slice(min(steep), max(steep) + 1)
-        chosen.append((g, span, core, _choose_profile(g, core, paths, depth_list, face_ranks, period_samples)))
-    chosen = _drop_buried(chosen, paths, period_samples, notes)
+        chosen.append((g, span, core, choose_profile(g, core, paths, depth_list, face_ranks, period_samples)))
+    chosen = drop_buried(chosen, paths, period_samples, notes)
     for g, span, core, profile in sorted(chosen, key=lambda c: c[1][0]):
         conf = profile.confidence
         if conf < min_confidence:
@@ -446,7 +270,7 @@ def pick_default(
         # clinoforms: every surface of the group, oldest (deepest) first
         # only surfaces beneath the outer profile along its foreset are its
         # older clinoforms (superposition); a surface above it lies in the fill
-        lo_p, hi_p = _foreset_span(profile)
+        lo_p, hi_p = foreset_span(profile)
         span_p = slice(lo_p, hi_p + 1)
         prof_z = float(np.mean(paths[profile.path_rank].z_index[span_p]))
         below = [m for m in g if float(np.mean(paths[m.path_rank].z_index[span_p])) >= prof_z - 1.0]

@@ -1,0 +1,230 @@
+"""Assembling margins from surfaces: slope-face profiles, checks and choices.
+
+Helpers of :func:`clinometry.picking.surfaces.pick_default`:
+
+* a slope face (:mod:`~clinometry.picking.faces`) is continued landward and
+  basinward along the tracked surfaces that meet its ends, joined where they
+  meet so the profile has no step;
+* a candidate from a tracked surface whose foreset cuts across coherent
+  reflectors of another dip is a jump between reflectors, and a face whose
+  underlying reflections do not dip like it is an artefact (both tested with
+  the structure-tensor dip, Fehmers & Höcker 2003, from memory);
+* of the candidates of one margin the outer (shallowest strong) surface is
+  the profile; margins facing both ways over one slope, or buried beneath a
+  more confident profile, are dropped with a note.
+
+All thresholds are facts of the trade with no single source and are named
+constants below.
+"""
+
+from __future__ import annotations
+
+import numpy as np
+from scipy import ndimage
+
+from .margins import velocity_at
+from .tracking import TrackedPath
+
+__all__ = [
+    "choose_profile",
+    "cuts_layering",
+    "drop_buried",
+    "drop_opposed",
+    "envelope_quality",
+    "face_profile",
+    "face_unconfirmed",
+    "foreset_span",
+    "regularise",
+    "true_dip_deg",
+]
+
+#: coherent dips steeper than this (true degrees) mark a slope face
+#: (common practice, no source)
+FACE_MIN_DIP_DEG = 3.0
+#: reflections below a face must dip at least this fraction of its slope
+#: (common practice, no source)
+FACE_DIP_AGREEMENT = 0.4
+
+
+def true_dip_deg(section, velocity, dip_samples, dx_m):
+    """True dip (degrees) from dip in samples per trace: tan = (v/2) dt/dx for TWT."""
+    dz = float(section.attrs["sample_interval"])
+    if section.attrs["domain"] == "depth":
+        return np.degrees(np.arctan(dip_samples * dz / dx_m)).astype(np.float32)
+    v = np.atleast_1d(velocity_at(section, velocity, section["z"].values)).astype(np.float32)
+    v = np.broadcast_to(v, (dip_samples.shape[1],))[None, :]
+    return np.degrees(np.arctan(0.5 * v * dip_samples * dz * 1e-3 / dx_m)).astype(np.float32)
+
+
+#: a surface is regularised by a running median over this many wavelengths
+#: and a Gaussian with a sigma of REGULARISE_SIGMA_WAVELENGTHS, to remove single-trace jumps between
+#: wavelet lobes without flattening slopes (common practice, no source)
+REGULARISE_WAVELENGTHS = 1.0
+REGULARISE_SIGMA_WAVELENGTHS = 0.5
+
+
+def regularise(z_index, wavelength_traces):
+    """Running median then Gaussian along the line (sizes from the wavelength)."""
+    size = int(max(3, 2 * round(REGULARISE_WAVELENGTHS * wavelength_traces / 2) + 1))
+    med = ndimage.median_filter(z_index, size=size, mode="nearest")
+    return ndimage.gaussian_filter1d(med, max(0.5, REGULARISE_SIGMA_WAVELENGTHS * wavelength_traces), mode="nearest")
+
+
+def envelope_quality(env, dead):
+    scale = float(np.percentile(env, 99.5)) or 1.0
+    e = np.clip(env / scale, 0.0, 1.0)
+    bg = float(np.median(e[~dead])) if (~dead).any() else 0.0
+    q = np.clip((e - bg) / max(1.0 - bg, 1e-6), 0.0, 1.0)
+    q[dead] = 0.0
+    return q
+
+
+def face_profile(face, paths, e_q, coh, period_samples, *, rank):
+    """Profile through a slope face, continued landward and basinward along
+    the tracked surfaces that meet its two ends (within half a period)."""
+    n = e_q.shape[0]
+    rows = np.arange(n)
+    z = np.full(n, np.nan)
+    q = np.zeros(n)
+    z[face.trace] = face.z_index
+    zi = np.clip(np.round(face.z_index).astype(int), 0, e_q.shape[1] - 1)
+    q[face.trace] = e_q[face.trace, zi] * (0.5 + 0.5 * coh[face.trace, zi])
+    i0, i1 = int(face.trace[0]), int(face.trace[-1])
+    reach = max(3, int(round(2 * period_samples)))
+    half = max(1, face.trace.size // 2)
+    ends = (
+        (i0, slice(max(0, i0 - reach), i0), face.trace[:half], True),
+        (i1, slice(i1 + 1, i1 + 1 + reach), face.trace[-half:], False),
+    )
+    for end, near, join_zone, before in ends:
+        # the strongest surface within one period of the face end, judged
+        # just beyond the end (platform top landward, basin floor basinward)
+        close = [p for p in paths if abs(p.z_index[end] - z[end]) <= period_samples]
+        if not close:
+            continue
+        best = max(close, key=lambda p: float(np.mean(p.quality[near])) if p.quality[near].size else 0.0)
+        # join where the face meets the surface (within half a period),
+        # as far into the face as possible, so the profile has no step
+        gap = np.abs(best.z_index[join_zone] - z[join_zone])
+        meet = np.flatnonzero(gap <= 0.5 * period_samples)
+        if meet.size:
+            j = int(join_zone[meet[-1]] if before else join_zone[meet[0]])
+        else:
+            j = int(join_zone[np.argmin(gap)])
+        side = rows < j if before else rows > j
+        z[side] = best.z_index[side]
+        q[side] = best.quality[side]
+    good = np.isfinite(z)
+    z = np.interp(rows, rows[good], z[good])
+    return TrackedPath(z_index=z, quality=q, polarity="unknown", rank=rank)
+
+
+def face_unconfirmed(cand, z_index, dip_deg, coh, period_samples):
+    """Reason why the reflections just below a face do not dip like it, or ''.
+
+    Foresets below a slope face run roughly parallel to it; a face whose
+    underlying coherent dips are much gentler than its own slope is an
+    artefact of the mask (common practice, no source).
+    """
+    lo, hi = foreset_span(cand)
+    tr = np.arange(lo, hi + 1)
+    nz = dip_deg.shape[1]
+    below = np.clip(np.round(z_index[tr])[:, None] + np.arange(1, int(period_samples) + 2)[None, :], 0, nz - 1).astype(int)
+    d = np.abs(dip_deg[tr[:, None], below])
+    c = coh[tr[:, None], below]
+    sure = c >= 0.5
+    if sure.sum() < 3:
+        return "no coherent reflections below the face"
+    med = float(np.median(d[sure]))
+    if med < FACE_DIP_AGREEMENT * abs(cand.slope_max_deg):
+        return f"reflections below the face dip {med:.1f} deg, much less than its slope {cand.slope_max_deg:.1f} deg"
+    return ""
+
+
+def cuts_layering(cand, z_index, dip, coh, period_samples):
+    """Reason why a candidate's foreset cuts across coherent layering, or ''.
+
+    Only judged where the foreset is not spatially aliased (steps below half
+    a period per trace): there the structure-tensor dip is reliable.
+    """
+    ends = [v for v in (cand.shelf_break, cand.toe) if v is not None] + [cand.steepest]
+    fs = np.arange(min(ends), max(ends) + 1)
+    if fs.size < 3:
+        return ""
+    step = np.gradient(z_index)[fs]
+    if np.percentile(np.abs(step), 75) >= 0.5 * period_samples:
+        return ""
+    zi = np.clip(np.round(z_index[fs]).astype(int), 0, dip.shape[1] - 1)
+    d = dip[fs, zi]
+    c = coh[fs, zi]
+    sure = c >= 0.6
+    if sure.sum() < 3:
+        return ""
+    miss = np.abs(step[sure] - d[sure])
+    if np.median(miss) > max(1.0, 0.5 * np.median(np.abs(step[sure]))):
+        return "the surface cuts across coherent reflectors of another dip (a jump between reflectors)"
+    return ""
+
+
+def choose_profile(g, core, paths, depth_list, face_ranks, period_samples):
+    """The outer surface of a margin group: the shallowest strong candidate
+    (youngest clinoform); a tracked reflection near a face is preferred."""
+    best_q = max(m.foreset_quality for m in g)
+    strong = [m for m in g if m.foreset_quality >= 0.6 * best_q]
+    profile = min(strong, key=lambda m: float(np.mean(depth_list[m.path_rank][core])))
+    if profile.path_rank in face_ranks:
+        lo_f, hi_f = foreset_span(profile)
+        fz = paths[profile.path_rank].z_index[lo_f : hi_f + 1]
+        near = [
+            m
+            for m in strong
+            if m.path_rank not in face_ranks
+            and np.mean(np.abs(paths[m.path_rank].z_index[lo_f : hi_f + 1] - fz)) <= period_samples
+        ]
+        if near:
+            profile = max(near, key=lambda m: m.foreset_quality)
+    return profile
+
+
+def drop_buried(chosen, paths, period_samples, notes):
+    """A margin's break must lie on the outer surface: drop one whose break
+    is buried more than a period beneath the profile of a more confident
+    margin (it is a surface inside the body, not a margin)."""
+    keep = []
+    for item in sorted(chosen, key=lambda c: -c[3].confidence):
+        prof = item[3]
+        t = prof.shelf_break if prof.shelf_break is not None else prof.steepest
+        z_here = paths[prof.path_rank].z_index[t]
+        buried = [k for k in keep if paths[k[3].path_rank].z_index[t] < z_here - period_samples]
+        if buried:
+            notes.append(
+                f"margin facing {prof.direction} at trace {t} dropped: it lies beneath the profile of the "
+                f"more confident margin facing {buried[0][3].direction}"
+            )
+            continue
+        keep.append(item)
+    return keep
+
+
+def foreset_span(m):
+    ends = [v for v in (m.shelf_break, m.toe) if v is not None] or [m.steepest]
+    return min(ends + [m.steepest]), max(ends + [m.steepest])
+
+
+def drop_opposed(groups, notes):
+    """One slope cannot face both ways: of two opposite-facing margins whose
+    foresets overlap, keep the more confident."""
+    best = [max(g, key=lambda m: m.confidence) for g in groups]
+    keep = [True] * len(groups)
+    for i in range(len(groups)):
+        for j in range(len(groups)):
+            if i == j or not keep[i] or not keep[j] or best[i].direction == best[j].direction:
+                continue
+            (a0, a1), (b0, b1) = foreset_span(best[i]), foreset_span(best[j])
+            if min(a1, b1) >= max(a0, b0) and best[i].confidence >= best[j].confidence:
+                keep[j] = False
+                notes.append(
+                    f"margin facing {best[j].direction} at traces {b0}-{b1} dropped: its foreset overlaps "
+                    f"the more confident margin facing {best[i].direction} at traces {a0}-{a1}"
+                )
+    return [g for g, k in zip(groups, keep) if k]
