@@ -26,6 +26,7 @@ from .margins import velocity_at
 from .tracking import TrackedPath
 
 __all__ = [
+    "limit_slope",
     "choose_profile",
     "cuts_layering",
     "drop_buried",
@@ -228,3 +229,58 @@ def drop_opposed(groups, notes):
                     f"the more confident margin facing {best[i].direction} at traces {a0}-{a1}"
                 )
     return [g for g, k in zip(groups, keep) if k]
+
+
+def limit_slope(z, distance_m, brk, toe, max_gradient):
+    """Surface between break and toe with no local gradient above the limit.
+
+    A surface tracked through interfering reflections (onlapping fill near
+    the slope, the toe where the slope reflection merges into the basin
+    floor) jumps between wavelet lobes; each jump is a local step far
+    steeper than the slope.  Here the basinward steps between break and
+    toe are clipped to ``max_gradient`` (the steepest slope of the surface
+    smoothed over one wavelength) and rescaled so the break and toe keep
+    their z: the relief is kept, the steps are spread over the foreset.
+
+    Parameters
+    ----------
+    z : array_like, shape (n_trace,)
+        Surface in section z units.
+    distance_m : array_like, shape (n_trace,), m
+    brk, toe : int
+        Trace indices of break and toe (either order).
+    max_gradient : float or array_like, shape (n_trace,)
+        Largest basinward dz/dx (z units per m).
+
+    Returns
+    -------
+    numpy.ndarray
+        A new surface; unchanged outside break..toe.
+
+    Examples
+    --------
+    >>> z = np.array([0.0, 0, 1, 1, 5, 5, 6, 6])
+    >>> np.round(limit_slope(z, np.arange(8.0), 1, 6, 2.0), 2).tolist()   # the 4-unit step is capped at 2
+    [0.0, 0.0, 1.33, 2.0, 4.0, 4.67, 6.0, 6.0]
+    """
+    z = np.array(z, dtype=float)
+    x = np.asarray(distance_m, dtype=float)
+    lo, hi = sorted((int(brk), int(toe)))
+    if hi - lo < 2:
+        return z
+    sgn = 1.0 if z[hi] >= z[lo] else -1.0
+    gmax = np.broadcast_to(np.asarray(max_gradient, dtype=float), z.shape)[lo:hi]
+    dx = np.abs(np.diff(x[lo : hi + 1]))
+    step = sgn * np.diff(z[lo : hi + 1])
+    cap = gmax * dx
+    clipped = np.clip(step, 0.0, cap)
+    total = sgn * (z[hi] - z[lo])
+    if clipped.sum() <= 0 or total <= 0:
+        return z
+    room = cap - clipped
+    deficit = total - clipped.sum()
+    if deficit > 0 and room.sum() > 0:
+        clipped = clipped + room * min(1.0, deficit / room.sum())
+    clipped *= total / clipped.sum()
+    z[lo + 1 : hi + 1] = z[lo] + sgn * np.cumsum(clipped)
+    return z

@@ -44,6 +44,7 @@ from .assemble import (
     face_profile,
     face_unconfirmed,
     foreset_span,
+    limit_slope,
     regularise,
     true_dip_deg,
 )
@@ -62,6 +63,11 @@ DEFAULT_MIN_CONFIDENCE = 0.3
 MIN_HORIZON_WAVELENGTHS = 1.0
 #: quality below which a path point is not part of an exported reflector
 MIN_POINT_QUALITY = 0.15
+#: local foreset gradients of an exported profile are limited to this
+#: multiple of its steepest gradient smoothed over one wavelength (that
+#: estimate is low on short foresets; steps between wavelet lobes are far
+#: steeper) (our choice, common practice, no source)
+SLOPE_LIMIT_FACTOR = 1.35
 
 
 def _max_jump_samples(section, velocity, max_dip_deg, dx_m):
@@ -260,6 +266,15 @@ def pick_default(
         chosen.append((g, span, core, choose_profile(g, core, paths, depth_list, face_ranks, period_samples)))
     chosen = drop_buried(chosen, paths, period_samples, notes)
     for g, span, core, profile in sorted(chosen, key=lambda c: c[1][0]):
+        if profile.shelf_break is not None and profile.toe is not None:
+            zs = zs_list[profile.path_rank]
+            if section.attrs["domain"] == "depth":
+                per_m = np.ones_like(zs)
+            else:  # ms of TWT per m of depth at each pick: 2000 / v
+                per_m = 2000.0 / np.broadcast_to(np.atleast_1d(velocity_at(section, velocity, zs)), zs.shape)
+            # local gradients limited to a multiple of the wavelength-scale steepest one
+            g_lim = np.tan(np.radians(profile.slope_max_deg))
+            zs_list[profile.path_rank] = limit_slope(zs, dist, profile.shelf_break, profile.toe, SLOPE_LIMIT_FACTOR * g_lim * per_m)
         conf = profile.confidence
         if conf < min_confidence:
             notes.append(

@@ -46,7 +46,7 @@ def _check(section, truth_margin, picks, metrics, *, check_slope=True):
             marks=pytest.mark.xfail(
                 strict=True,
                 reason="known limitation: the picked foreset steps where the basin fill onlaps it; "
-                "metrics measure 26.5 deg over their short base for the true 20 deg",
+                "metrics measure more than 22 deg over their short base for the true 20 deg",
             ),
         ),
         "falling_shelf",
