@@ -129,13 +129,18 @@ def min_cost_path(cost, *, max_jump: int, jump_cost: float, dip=None, dip_cost=N
     acc = c[0].copy()
     padded = np.full(m + 2 * k, np.inf, dtype=np.float32)
     rows = np.arange(m)
+    # the windows are views: made once, they follow the in-place updates below
+    win = sliding_window_view(padded, 2 * k + 1)  # win[z, j] = padded[z + j]
+    if use_dip:
+        win_dip = sliding_window_view(pdip, 2 * k + 1)
+        win_w = sliding_window_view(pw, 2 * k + 1)
     for i in range(1, n):
         padded[k : k + m] = acc
-        tot = sliding_window_view(padded, 2 * k + 1) + pen  # tot[z, j] = acc[z + j - k] + pen[j]
+        tot = win + pen  # tot[z, j] = acc[z + j - k] + pen[j]
         if use_dip:
             pdip[k : k + m] = dip[i - 1]
             pw[k : k + m] = dip_cost[i - 1]
-            tot = tot + sliding_window_view(pw, 2 * k + 1) * np.abs(steps - sliding_window_view(pdip, 2 * k + 1))
+            tot += win_w * np.abs(steps - win_dip)
         j = np.argmin(tot, axis=1)
         acc = c[i] + tot[rows, j]
         back[i] = j - k
