@@ -140,6 +140,11 @@ def pick_default(
     Returns
     -------
     Picks
+        Horizons: the surfaces of each margin (ids from 0, roles
+        ``margin_profile`` and ``clinoform``, one z per trace), its
+        ``platform_top`` (ids from 10000) and the remaining tracked
+        reflector pieces (ids from 20000, role ``reflector``).  Margins with
+        break, toe and clinoforms (oldest first), or none with a note why.
 
     Raises
     ------
