@@ -117,37 +117,57 @@ def min_cost_path(cost, *, max_jump: int, jump_cost: float, dip=None, dip_cost=N
     c = np.asarray(cost, dtype=np.float32)
     n, m = c.shape
     k = int(max(0, min(max_jump, m - 1)))
-    steps = np.arange(k, -k - 1, -1).astype(np.float32)  # step z - z' for window column j
+    w = 2 * k + 1
+    steps = np.arange(k, -k - 1, -1).astype(np.float32)
     pen = (float(jump_cost) * np.abs(steps)).astype(np.float32)
     use_dip = dip is not None and dip_cost is not None
+    acc = np.empty((n, m), dtype=np.float32)
+    acc[0] = c[0]
+    padded = np.full(m + 2 * k, np.inf, dtype=np.float32)
+    win = sliding_window_view(padded, m)  # (w, m): win[j, z] = acc[z + j - k]
+    tot = np.empty((w, m), dtype=np.float32)
+    pen_c = pen[:, None]
     if use_dip:
         dip = np.asarray(dip, dtype=np.float32)
         dip_cost = np.asarray(dip_cost, dtype=np.float32)
         pdip = np.zeros(m + 2 * k, dtype=np.float32)
         pw = np.zeros(m + 2 * k, dtype=np.float32)
-    back = np.zeros((n, m), dtype=np.int32)
-    acc = c[0].copy()
-    padded = np.full(m + 2 * k, np.inf, dtype=np.float32)
-    rows = np.arange(m)
-    # the windows are views: made once, they follow the in-place updates below
-    win = sliding_window_view(padded, 2 * k + 1)  # win[z, j] = padded[z + j]
-    if use_dip:
-        win_dip = sliding_window_view(pdip, 2 * k + 1)
-        win_w = sliding_window_view(pw, 2 * k + 1)
+        win_dip = sliding_window_view(pdip, m)
+        win_w = sliding_window_view(pw, m)
+        steps_c = steps[:, None]
+        tmp = np.empty((w, m), dtype=np.float32)
+    best = np.empty(m, dtype=np.float32)
     for i in range(1, n):
-        padded[k : k + m] = acc
-        tot = win + pen  # tot[z, j] = acc[z + j - k] + pen[j]
+        padded[k : k + m] = acc[i - 1]
+        np.add(win, pen_c, out=tot)
         if use_dip:
             pdip[k : k + m] = dip[i - 1]
             pw[k : k + m] = dip_cost[i - 1]
-            tot += win_w * np.abs(steps - win_dip)
-        j = np.argmin(tot, axis=1)
-        acc = c[i] + tot[rows, j]
-        back[i] = j - k
+            np.subtract(steps_c, win_dip, out=tmp)
+            np.abs(tmp, out=tmp)
+            np.multiply(win_w, tmp, out=tmp)
+            tot += tmp
+        np.min(tot, axis=0, out=best)
+        np.add(c[i], best, out=acc[i])
+    # back-track: re-evaluate the (2k+1) candidate steps along the path only
     path = np.empty(n, dtype=np.int64)
-    path[-1] = int(np.argmin(acc))
+    z = int(np.argmin(acc[-1]))
+    path[-1] = z
+    seg = np.full(w, np.inf, dtype=np.float32)
     for i in range(n - 1, 0, -1):
-        path[i - 1] = path[i] + back[i, path[i]]
+        lo, hi = z - k, z + k + 1
+        a, b = max(lo, 0), min(hi, m)
+        seg.fill(np.inf)
+        seg[a - lo : b - lo] = acc[i - 1, a:b]
+        vals = seg + pen
+        if use_dip:
+            dd = np.zeros(w, np.float32)
+            ww = np.zeros(w, np.float32)
+            dd[a - lo : b - lo] = dip[i - 1, a:b]
+            ww[a - lo : b - lo] = dip_cost[i - 1, a:b]
+            vals += ww * np.abs(steps - dd)
+        z = z + int(np.argmin(vals)) - k
+        path[i - 1] = z
     return path
 
 
