@@ -60,6 +60,8 @@ logger = logging.getLogger(__name__)
 NORMALISING_PERCENTILE = 99.5
 #: cells per dominant period in the coarse search (common practice, no source)
 CELLS_PER_PERIOD = 8
+#: cells of dip-penalty terms made at once (a few MB of float32; speed only)
+_BLOCK_CELLS = 1 << 20
 
 
 @dataclass(frozen=True)
@@ -121,50 +123,52 @@ def min_cost_path(cost, *, max_jump: int, jump_cost: float, dip=None, dip_cost=N
     steps = np.arange(k, -k - 1, -1).astype(np.float32)
     pen = (float(jump_cost) * np.abs(steps)).astype(np.float32)
     use_dip = dip is not None and dip_cost is not None
-    acc = np.empty((n, m), dtype=np.float32)
-    acc[0] = c[0]
-    padded = np.full(m + 2 * k, np.inf, dtype=np.float32)
-    win = sliding_window_view(padded, m)  # (w, m): win[j, z] = acc[z + j - k]
+    # accumulated cost, padded with inf by k cells on both sides of z
+    acc = np.full((n, m + 2 * k), np.inf, dtype=np.float32)
+    acc[0, k : k + m] = c[0]
+    win = sliding_window_view(acc, m, axis=1)  # (n, w, m): win[i, j, z] = acc of cell z + j - k
     tot = np.empty((w, m), dtype=np.float32)
     pen_c = pen[:, None]
+    best = np.empty(m, dtype=np.float32)
     if use_dip:
         dip = np.asarray(dip, dtype=np.float32)
         dip_cost = np.asarray(dip_cost, dtype=np.float32)
-        pdip = np.zeros(m + 2 * k, dtype=np.float32)
-        pw = np.zeros(m + 2 * k, dtype=np.float32)
-        win_dip = sliding_window_view(pdip, m)
-        win_w = sliding_window_view(pw, m)
-        steps_c = steps[:, None]
-        tmp = np.empty((w, m), dtype=np.float32)
-    best = np.empty(m, dtype=np.float32)
-    for i in range(1, n):
-        padded[k : k + m] = acc[i - 1]
-        np.add(win, pen_c, out=tot)
+        # the dip term does not depend on the accumulated cost: it is made for
+        # a block of traces at once, then added trace by trace
+        block = max(1, min(n - 1, _BLOCK_CELLS // max(w * m, 1)))
+        pdip = np.zeros((block, m + 2 * k), dtype=np.float32)
+        pw = np.zeros((block, m + 2 * k), dtype=np.float32)
+        win_dip = sliding_window_view(pdip, m, axis=1)  # (block, w, m)
+        win_w = sliding_window_view(pw, m, axis=1)
+        term = np.empty((block, w, m), dtype=np.float32)
+        steps_c = steps[None, :, None]
+    for i0 in range(1, n, block if use_dip else n):
+        i1 = min(n, i0 + block) if use_dip else n
         if use_dip:
-            pdip[k : k + m] = dip[i - 1]
-            pw[k : k + m] = dip_cost[i - 1]
-            np.subtract(steps_c, win_dip, out=tmp)
-            np.abs(tmp, out=tmp)
-            np.multiply(win_w, tmp, out=tmp)
-            tot += tmp
-        np.min(tot, axis=0, out=best)
-        np.add(c[i], best, out=acc[i])
+            b = i1 - i0
+            pdip[:b, k : k + m] = dip[i0 - 1 : i1 - 1]
+            pw[:b, k : k + m] = dip_cost[i0 - 1 : i1 - 1]
+            np.subtract(steps_c, win_dip[:b], out=term[:b])
+            np.abs(term[:b], out=term[:b])
+            np.multiply(win_w[:b], term[:b], out=term[:b])
+        for i in range(i0, i1):
+            np.add(win[i - 1], pen_c, out=tot)
+            if use_dip:
+                tot += term[i - i0]
+            np.min(tot, axis=0, out=best)
+            np.add(c[i], best, out=acc[i, k : k + m])
     # back-track: re-evaluate the (2k+1) candidate steps along the path only
     path = np.empty(n, dtype=np.int64)
-    z = int(np.argmin(acc[-1]))
+    z = int(np.argmin(acc[-1, k : k + m]))
     path[-1] = z
-    seg = np.full(w, np.inf, dtype=np.float32)
     for i in range(n - 1, 0, -1):
-        lo, hi = z - k, z + k + 1
-        a, b = max(lo, 0), min(hi, m)
-        seg.fill(np.inf)
-        seg[a - lo : b - lo] = acc[i - 1, a:b]
-        vals = seg + pen
+        vals = acc[i - 1, z : z + w] + pen  # candidates z - k .. z + k
         if use_dip:
+            a, b = max(z - k, 0), min(z + k + 1, m)
             dd = np.zeros(w, np.float32)
             ww = np.zeros(w, np.float32)
-            dd[a - lo : b - lo] = dip[i - 1, a:b]
-            ww[a - lo : b - lo] = dip_cost[i - 1, a:b]
+            dd[a - z + k : b - z + k] = dip[i - 1, a:b]
+            ww[a - z + k : b - z + k] = dip_cost[i - 1, a:b]
             vals += ww * np.abs(steps - dd)
         z = z + int(np.argmin(vals)) - k
         path[i - 1] = z
