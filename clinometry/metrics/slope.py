@@ -12,18 +12,28 @@ foreset_width_m
 slope_mean_deg
     ``atan(relief_m / foreset_width_m)``: the mean declivity of the foreset.
 slope_max_deg
-    The steepest *secant* slope over a horizontal base of ``base_length_m``
-    between break and toe.  The base is tied to the data: by default the
-    longer of :data:`BASE_LENGTH_TRACES` trace spacings and the length over
-    which one depth sample is :data:`SLOPE_PRECISION_FRACTION` (10 %) of the
-    mean foreset gradient, so the vertical pick error changes the slope by
-    at most about a tenth of itself: ~70 m for a 20 deg foreset and ~2 km
-    for a 0.8 deg ramp at 2.5 m samples.  A margin narrower than the base
-    is measured by its break-to-toe secant (max = mean).  Where break and toe
-    are closer than one base, it is the break-to-toe secant (= mean slope).
-    When break or toe is missing, the window runs to the end of the profile
-    and ``slope_window`` says so: the steepest part of a margin is a real
-    measurement even where the break is not sharp enough to pick (ramps).
+    The steepest *secant* slope over a horizontal base ``L`` lying wholly
+    between break and toe: ``max over x of atan((d(x + L) - d(x)) / L)``.
+    One definition, used by the metrics on the picked surface and by the
+    forward model's ground truth (:mod:`clinometry.synth.truth`) on the exact
+    surface, with the same base (:func:`slope_base_length_m`)::
+
+        L = max(SLOPE_BASE_MIN_M, BASE_LENGTH_TRACES * trace spacing,
+                depth sample / (SLOPE_PRECISION_FRACTION * tan(slope_mean)))
+
+    i.e. at least 150 m (about one to two dominant wavelengths of usual
+    seismic, so the slope is that of the imaged foreset and not of the
+    wavelet's lateral smear or of pick jitter), at least 4 traces, and long
+    enough that one depth sample of vertical pick error changes the slope by
+    at most a tenth of the mean foreset gradient -- ~150 m for a 20 deg
+    foreset and ~1.8 km for a 0.8 deg ramp at 2.5 m depth samples.  This is
+    what an interpreter reads as "the maximum foreset slope": the steepest
+    stretch of the foreset over a distance well above the pick noise.  A
+    margin narrower than ``L`` is measured by its break-to-toe secant
+    (max = mean).  When break or toe is missing, the window runs to the end
+    of the profile and ``slope_window`` says so: the steepest part of a
+    margin is a real measurement even where the break is not sharp enough to
+    pick (ramps).
 topset_gradient_deg, bottomset_gradient_deg
     Least-squares gradient of depth against basinward distance over
     ``flank_length_m`` landward of the break (platform top) and basinward of
@@ -41,7 +51,10 @@ clinoform_height_m
 Secant slopes rather than point derivatives are used because picks are
 quantised to one sample vertically and one trace laterally; a secant over a
 stated base is the usual way to report a slope from quantised elevations
-(common practice, no source).
+(common practice, no source).  Published carbonate slope declivities
+(e.g. Kenter 1990, Sedimentology 37: 777-794; Adams & Schlager 2000, J. Sed.
+Res. 70: 814-828) are read off profiles over hundreds of metres, not per
+trace (from memory); the 150 m floor keeps ours comparable with those.
 """
 
 from __future__ import annotations
@@ -51,6 +64,7 @@ import logging
 import numpy as np
 
 __all__ = [
+    "SLOPE_BASE_MIN_M",
     "BASE_LENGTH_TRACES",
     "SLOPE_PRECISION_FRACTION",
     "SLOPE_QUANTUM_DEG",
@@ -59,13 +73,21 @@ __all__ = [
     "slope_metrics",
     "grid_surface",
     "secant_slope_max_deg",
+    "slope_base_length_m",
     "base_length_m_for",
     "local_length_m",
 ]
 
 logger = logging.getLogger(__name__)
 
-#: base of the maximum-slope secant, in trace spacings (chosen here; common
+#: shortest base of the maximum-slope secant, m (chosen here; common practice,
+#: no source: one to two dominant wavelengths of 20-40 Hz data at 2-4 km/s
+#: (lambda = v / f, 50-200 m), so the secant spans the lateral smear of the
+#: wavelet and several traces of pick jitter; slope declivities in the
+#: literature are measured over hundreds of metres -- Kenter 1990,
+#: Sedimentology 37; Adams & Schlager 2000, J. Sed. Res. 70; from memory)
+SLOPE_BASE_MIN_M = 150.0
+#: shortest base of the maximum-slope secant, in trace spacings (chosen here; common
 #: practice, no source: long enough that one depth sample over the base is
 #: a few degrees at most, short enough to resolve a foreset of ~10 traces)
 BASE_LENGTH_TRACES = 4
@@ -109,15 +131,45 @@ def local_length_m(geometry) -> float:
     return float(max(BASE_LENGTH_TRACES * geometry.trace_spacing_m, vertical))
 
 
-def base_length_m_for(geometry, base_length_m=None, *, surface=None) -> float:
-    """The base length of the max-slope secant, m.
+def slope_base_length_m(trace_spacing_m: float, depth_sample_m: float, mean_gradient=None) -> float:
+    """The base of the max-slope secant, m: the one definition shared with the ground truth.
 
-    Given, or the longer of :data:`BASE_LENGTH_TRACES` trace spacings and
-    the length over which one depth sample is :data:`SLOPE_PRECISION_FRACTION`
-    of the surface's mean break-to-toe gradient
-    (``depth_sample_m / (SLOPE_PRECISION_FRACTION * tan(slope_mean))``).
-    Without a mean slope (break or toe missing), one depth sample over the
-    base is a slope of :data:`SLOPE_QUANTUM_DEG`.
+    ``max(SLOPE_BASE_MIN_M, BASE_LENGTH_TRACES * trace_spacing_m,
+    depth_sample_m / (SLOPE_PRECISION_FRACTION * mean_gradient))``; without a
+    mean gradient (break or toe missing, or not deepening basinward) the
+    last term is ``depth_sample_m / tan(SLOPE_QUANTUM_DEG)``.
+
+    Parameters
+    ----------
+    trace_spacing_m : float, m
+    depth_sample_m : float, m
+        One sample of the section converted to depth at the shelf break.
+    mean_gradient : float, optional
+        tan of the break-to-toe mean slope (> 0).
+
+    Returns
+    -------
+    float, m
+
+    Examples
+    --------
+    >>> round(slope_base_length_m(12.5, 2.5, np.tan(np.radians(20.0))), 1)
+    150.0
+    >>> round(slope_base_length_m(12.5, 2.5, np.tan(np.radians(0.8))), 0)
+    1790.0
+    """
+    if mean_gradient is not None and mean_gradient > 0:
+        vertical = depth_sample_m / (SLOPE_PRECISION_FRACTION * mean_gradient)
+    else:
+        vertical = depth_sample_m / np.tan(np.radians(SLOPE_QUANTUM_DEG))
+    return float(max(SLOPE_BASE_MIN_M, BASE_LENGTH_TRACES * trace_spacing_m, vertical))
+
+
+def base_length_m_for(geometry, base_length_m=None, *, surface=None) -> float:
+    """The base length of the max-slope secant of a margin geometry, m.
+
+    Given, or :func:`slope_base_length_m` with the geometry's trace spacing,
+    depth sample and the surface's mean break-to-toe gradient.
 
     Parameters
     ----------
@@ -136,10 +188,7 @@ def base_length_m_for(geometry, base_length_m=None, *, surface=None) -> float:
             raise ValueError(f"{geometry.name}: base_length_m must be > 0, got {base_length_m!r}")
         return float(base_length_m)
     g = _mean_gradient(surface if surface is not None else geometry.profile)
-    if g is None:
-        return local_length_m(geometry)
-    vertical = geometry.depth_sample_m / (SLOPE_PRECISION_FRACTION * g)
-    return float(max(BASE_LENGTH_TRACES * geometry.trace_spacing_m, vertical))
+    return slope_base_length_m(geometry.trace_spacing_m, geometry.depth_sample_m, g)
 
 
 def grid_surface(surface, step_m: float):

@@ -56,7 +56,7 @@ def _point(i, depth_m, *, distance, x, y, to_z):
             "x": float(x[i]), "y": float(y[i]), "z": float(to_z(depth_m))}
 
 
-def margins_truth(depths, *, sides, distance, x, y, to_z, family, n_steps):
+def margins_truth(depths, *, sides, distance, x, y, to_z, family, n_steps, depth_sample_m=None):
     """Truth of every margin of a grown section.
 
     Parameters
@@ -70,6 +70,9 @@ def margins_truth(depths, *, sides, distance, x, y, to_z, family, n_steps):
         Depth (m) -> z in the section's units.
     family : str or None
     n_steps : int
+    depth_sample_m : callable, optional
+        Depth (m) -> one seismic sample in m there; sets the precision term
+        of the max-slope base (:func:`clinometry.synth.truth.profile_margin`).
 
     Returns
     -------
@@ -92,14 +95,14 @@ def margins_truth(depths, *, sides, distance, x, y, to_z, family, n_steps):
                                   _N_CLINOFORMS).astype(int))
     for direction, idx in segs.items():
         s = np.abs(distance[idx] - distance[idx[0]])
-        m = profile_margin(s, final[idx])
+        m = profile_margin(s, final[idx], depth_sample_m=depth_sample_m)
         if m is None:
             continue
         pt = dict(distance=distance, x=x, y=y, to_z=to_z)
         ib, it = idx[m["break"]], idx[m["toe"]]
         clinos = []
         for k in steps:
-            mk = profile_margin(s, depths[k][idx])
+            mk = profile_margin(s, depths[k][idx], depth_sample_m=depth_sample_m)
             if mk is None:
                 continue
             kb, kt = idx[mk["break"]], idx[mk["toe"]]
@@ -265,7 +268,8 @@ def make_line(scenario, *, snr=None, seed=0, peak_hz=None, velocity_m_s=None,
 
     to_z = vel.twt_ms if domain == "twt" else (lambda d: np.asarray(d, dtype=float))
     margins = margins_truth(depths, sides=sides, distance=distance, x=x, y=y,
-                            to_z=lambda d: float(to_z(d)), family=sc.family, n_steps=g.n_steps)
+                            to_z=lambda d: float(to_z(d)), family=sc.family, n_steps=g.n_steps,
+                            depth_sample_m=lambda d: dz / (float(to_z(d + 0.5)) - float(to_z(d - 0.5))))
     cdp = sc.first_cdp + np.arange(n_tr)
     attrs = {"sample_format": "float32 (in memory, not yet written)", "text_header": "", "source_path": "",
              "dead_traces": dead, "synthetic_scenario": sc.name, "seed": int(seed)}
@@ -294,6 +298,9 @@ def make_line(scenario, *, snr=None, seed=0, peak_hz=None, velocity_m_s=None,
                         "trajectory_flat_tolerance_deg": TRAJECTORY_FLAT_DEG,
                         "break": "max convex-up curvature between platform top and steepest point",
                         "toe": "max concave-up curvature between steepest point and basin floor",
+                        "slope_max": ("steepest secant over a horizontal base wholly between break and toe, "
+                                      "base = max(base_length_m, 4 traces, one depth sample / "
+                                      "(0.1 tan(slope_mean))); as clinometry.metrics.slope"),
                         "depth_m": "below the z origin (time zero), positive down"},
         "expected_family": sc.family,
         "expected_trajectory": sc.trajectory,

@@ -17,8 +17,13 @@ are taken.
   ``d''(s)``) between the steepest point and the basinward end;
 * ``relief_m`` = toe depth - break depth (unsmoothed profile);
 * ``slope_max_deg``: largest dip of the unsmoothed profile measured as a
-  secant over a base length ``base_length_m`` (default
-  :data:`BASE_LENGTH_M`) between break and toe;
+  secant over a horizontal base ``L`` lying wholly between break and toe
+  (the break-to-toe secant when they are closer than ``L``), with
+  ``L = max(BASE_LENGTH_M, BASE_LENGTH_TRACES * trace spacing,
+  depth sample / (SLOPE_PRECISION_FRACTION * tan(slope_mean)))`` -- the
+  same definition and constants as ``clinometry.metrics.slope`` uses on
+  picked surfaces (checked by ``tests/synth/test_truth.py``), so truth and
+  measurement differ only by the picks;
 * ``slope_mean_deg`` = atan(relief / horizontal break-to-toe distance);
 * shelf-break trajectory: least-squares line through the breaks of the
   clinoforms (oldest to youngest) in (basinward distance, depth);
@@ -48,6 +53,9 @@ from scipy.ndimage import gaussian_filter1d
 __all__ = [
     "SMOOTHING_M",
     "BASE_LENGTH_M",
+    "BASE_LENGTH_TRACES",
+    "SLOPE_PRECISION_FRACTION",
+    "slope_base_m",
     "TRAJECTORY_FLAT_DEG",
     "MIN_RELIEF_M",
     "profile_margin",
@@ -56,8 +64,14 @@ __all__ = [
 
 #: Gaussian smoothing (standard deviation) before curvature, m (project choice)
 SMOOTHING_M = 60.0
-#: base length of the secant used for slope_max_deg, m (project choice)
+#: shortest base of the secant used for slope_max_deg, m (project choice; the
+#: same value as clinometry.metrics.slope.SLOPE_BASE_MIN_M, see there)
 BASE_LENGTH_M = 150.0
+#: shortest base of that secant, in trace spacings (as clinometry.metrics.slope)
+BASE_LENGTH_TRACES = 4
+#: one depth sample over the base is at most this fraction of the mean
+#: foreset gradient (as clinometry.metrics.slope)
+SLOPE_PRECISION_FRACTION = 0.1
 #: trajectory angles within +/- this are "flat", degrees (project choice; the
 #: same value as the trajectory metric of clinometry.metrics uses)
 TRAJECTORY_FLAT_DEG = 0.1
@@ -65,8 +79,27 @@ TRAJECTORY_FLAT_DEG = 0.1
 MIN_RELIEF_M = 10.0
 
 
+def slope_base_m(trace_spacing_m, depth_sample_m, mean_gradient, *, min_base_m=BASE_LENGTH_M):
+    """Base of the max-slope secant, m (the definition of ``clinometry.metrics.slope``).
+
+    ``max(min_base_m, BASE_LENGTH_TRACES * trace_spacing_m,
+    depth_sample_m / (SLOPE_PRECISION_FRACTION * mean_gradient))``; the last
+    term is left out when ``depth_sample_m`` is None or the gradient is not
+    positive.
+
+    Examples
+    --------
+    >>> round(slope_base_m(12.5, 2.5, np.tan(np.radians(0.8))), 0)
+    1790.0
+    """
+    base = max(float(min_base_m), BASE_LENGTH_TRACES * float(trace_spacing_m))
+    if depth_sample_m is not None and mean_gradient > 0:
+        base = max(base, float(depth_sample_m) / (SLOPE_PRECISION_FRACTION * float(mean_gradient)))
+    return base
+
+
 def profile_margin(distance_m, depth_m, *, smoothing_m=SMOOTHING_M, base_length_m=BASE_LENGTH_M,
-                   min_relief_m=MIN_RELIEF_M):
+                   min_relief_m=MIN_RELIEF_M, trace_spacing_m=None, depth_sample_m=None):
     """Break, toe, slope and relief of one margin profile.
 
     Parameters
@@ -75,15 +108,24 @@ def profile_margin(distance_m, depth_m, *, smoothing_m=SMOOTHING_M, base_length_
         Basinward distance, increasing, regular spacing.
     depth_m : array_like, shape (n,), m
         Depth of the surface, positive down.
-    smoothing_m, base_length_m, min_relief_m : float, m
+    smoothing_m, min_relief_m : float, m
         See the module docstring.
+    base_length_m : float, m
+        Shortest base of the max-slope secant (see :func:`slope_base_m`).
+    trace_spacing_m : float, m, optional
+        Trace spacing of the seismic line; default the profile's spacing.
+    depth_sample_m : float or callable, m, optional
+        One sample of the seismic in depth, or a function of depth (m) giving
+        it; evaluated at the break.  None leaves out the precision term of
+        the base.
 
     Returns
     -------
     dict or None
         ``{"break": i, "toe": j, "steepest": k, "relief_m", "slope_max_deg",
-        "slope_mean_deg"}`` with indices into the profile, or None when the
-        profile has no margin (relief below ``min_relief_m``).
+        "slope_mean_deg", "slope_base_length_m"}`` with indices into the
+        profile, or None when the profile has no margin (relief below
+        ``min_relief_m``).
 
     Examples
     --------
@@ -107,17 +149,19 @@ def profile_margin(distance_m, depth_m, *, smoothing_m=SMOOTHING_M, base_length_
     relief = float(d[j] - d[i])
     if relief < min_relief_m or j <= i:
         return None
-    half = max(1, int(round(0.5 * base_length_m / ds)))
-    lo, hi = max(i, half), min(j, d.size - 1 - half)
-    if hi >= lo:
-        idx = np.arange(lo, hi + 1)
-        sec = (d[idx + half] - d[idx - half]) / (s[idx + half] - s[idx - half])
+    width = float(s[j] - s[i])
+    dsample = depth_sample_m(float(d[i])) if callable(depth_sample_m) else depth_sample_m
+    base = slope_base_m(ds if trace_spacing_m is None else trace_spacing_m, dsample, relief / width,
+                        min_base_m=base_length_m)
+    n_base = max(1, int(round(base / ds)))
+    if j - i >= n_base:
+        sec = (d[i + n_base: j + 1] - d[i: j + 1 - n_base]) / (n_base * ds)
         slope_max = float(np.degrees(np.arctan(sec.max())))
     else:  # margin narrower than the base length: one secant break-to-toe
-        slope_max = float(np.degrees(np.arctan(relief / (s[j] - s[i]))))
-    slope_mean = float(np.degrees(np.arctan(relief / (s[j] - s[i]))))
+        slope_max = float(np.degrees(np.arctan(relief / width)))
+    slope_mean = float(np.degrees(np.arctan(relief / width)))
     return {"break": i, "toe": j, "steepest": k, "relief_m": relief,
-            "slope_max_deg": slope_max, "slope_mean_deg": slope_mean}
+            "slope_max_deg": slope_max, "slope_mean_deg": slope_mean, "slope_base_length_m": base}
 
 
 def trajectory(distance_m, depth_m, *, flat_deg=TRAJECTORY_FLAT_DEG):

@@ -28,13 +28,45 @@ def test_planar_10deg_foreset_depth_section(build_margin, planar):
     assert v["slope_window"] == "break_to_toe"
 
 
-@pytest.mark.parametrize("dz,expected", [(4.0, 4.0 / (0.1 * np.tan(np.radians(10.0)))), (0.5, 4 * 25.0)])
-def test_default_base_length_tied_to_sampling(build_margin, planar, dz, expected):
-    # the longer of 4 trace spacings and the length over which one depth sample
-    # is 10 % of the mean gradient: dz / (0.1 tan 10 deg) (trigonometry, common practice, no source)
-    v, _ = _slope(*build_margin(planar(10.0), dz=dz))
+@pytest.mark.parametrize("dz,spacing,expected", [
+    (4.0, 25.0, 4.0 / (0.1 * np.tan(np.radians(10.0)))),  # precision term: 226.9 m
+    (0.5, 25.0, 150.0),                                   # the 150 m floor (SLOPE_BASE_MIN_M)
+    (0.5, 50.0, 4 * 50.0),                                # 4 trace spacings
+])
+def test_default_base_length_tied_to_sampling(build_margin, planar, dz, spacing, expected):
+    # the longest of 150 m, 4 trace spacings and the length over which one depth sample
+    # is 10 % of the mean gradient: dz / (0.1 tan 10 deg) (trigonometry; the 150 m and
+    # the 10 % are chosen here, common practice, no source)
+    v, _ = _slope(*build_margin(planar(10.0), dz=dz, spacing_m=spacing, n_trace=int(121 * 25 / spacing) + 1,
+                                break_trace=int(1000 / spacing), toe_trace=int(2000 / spacing)))
     assert v["slope_base_length_m"] == pytest.approx(expected)
     assert v["slope_max_deg"] == pytest.approx(10.0)
+
+
+def test_metrics_and_truth_share_one_max_slope_definition():
+    # the ground truth of the forward model (clinometry.synth.truth) and the metrics must
+    # use the same secant base and give the same max slope on the same exact surface:
+    # a Gaussian-rounded 25 deg foreset (erf profile), break and toe as the truth finds them
+    from scipy.special import erf
+
+    from clinometry.metrics.slope import slope_base_length_m
+    from clinometry.synth.truth import profile_margin, slope_base_m
+
+    for dx, dsample, grad in [(12.5, 2.5, np.tan(np.radians(20.0))), (12.5, 2.5, np.tan(np.radians(0.8))),
+                              (50.0, 1.0, 0.3), (25.0, 5.0, 0.05)]:
+        assert slope_base_length_m(dx, dsample, grad) == pytest.approx(slope_base_m(dx, dsample, grad))
+    s = np.arange(0.0, 4000.0, 12.5)
+    # slope of an erf step of height H and width w peaks at H / (w sqrt(pi)) (calculus)
+    h, w = 300.0, 300.0
+    d = 100.0 + 0.5 * h * (1 + erf((s - 2000.0) / w))
+    t = profile_margin(s, d, depth_sample_m=2.5)
+    i, j = t["break"], t["toe"]
+    base = slope_base_length_m(12.5, 2.5, (d[j] - d[i]) / (s[j] - s[i]))
+    assert t["slope_base_length_m"] == pytest.approx(base)
+    got = float(secant_slope_max_deg(s, d, s[i], s[j], base))
+    assert got == pytest.approx(t["slope_max_deg"], abs=1e-9)
+    # the 150 m secant is a little below the point maximum atan(H / (w sqrt(pi))) = 29.4 deg
+    assert np.degrees(np.arctan(h / (w * np.sqrt(np.pi)))) - 1.0 < got < np.degrees(np.arctan(h / (w * np.sqrt(np.pi))))
 
 
 def test_default_base_length_without_mean_slope(build_margin, planar):
