@@ -29,6 +29,7 @@ __all__ = [
     "limit_slope",
     "choose_profile",
     "cuts_layering",
+    "steepest_unconfirmed",
     "drop_buried",
     "drop_opposed",
     "envelope_quality",
@@ -45,6 +46,9 @@ FACE_MIN_DIP_DEG = 3.0
 #: reflections below a face must dip at least this fraction of its slope
 #: (common practice, no source)
 FACE_DIP_AGREEMENT = 0.4
+#: structure-tensor coherence above which a dip is trusted in these tests
+#: (common practice, no source)
+FACE_COHERENCE = 0.5
 
 
 def true_dip_deg(section, velocity, dip_samples, dx_m):
@@ -139,6 +143,47 @@ def face_unconfirmed(cand, z_index, dip_deg, coh, period_samples):
     med = float(np.median(d[sure]))
     if med < FACE_DIP_AGREEMENT * abs(cand.slope_max_deg):
         return f"reflections below the face dip {med:.1f} deg, much less than its slope {cand.slope_max_deg:.1f} deg"
+    return ""
+
+
+def steepest_unconfirmed(cand, z_index, dip_deg, coh, period_samples, half_width_traces):
+    """Reason why the reflections at the steepest point do not dip like the surface, or ''.
+
+    A depositional slope is made of reflections that dip with it
+    (foresets, Mitchum, Vail & Sangree 1977, from memory): just beneath the
+    steepest point of a margin profile the coherent structure-tensor dip
+    (Fehmers & Höcker 2003, from memory) points basinward and is of the
+    same order as the slope.  Where a tracked surface steps from one
+    reflector to a deeper one (across a fault, or between flat layers) its
+    smoothed slope is steep but the reflections there are flat or dip the
+    other way.  The test uses the signed basinward dip, so noise around
+    zero does not confirm a slope.
+    """
+    n, nz = dip_deg.shape
+    sgn = 1.0 if cand.direction == "+" else -1.0
+    lo_f, hi_f = foreset_span(cand)
+    w = max(2, int(round(half_width_traces)))
+    tr = np.arange(max(lo_f, cand.steepest - w), min(hi_f, cand.steepest + w) + 1)
+    if tr.size < 3:
+        return ""
+    below = np.round(z_index[tr])[:, None] + np.arange(1, int(np.ceil(period_samples)) + 2)[None, :]
+    inside = below <= nz - 1  # pixels below the record are not evidence
+    below = np.clip(below, 0, nz - 1).astype(int)
+    d = sgn * dip_deg[tr[:, None], below]
+    sure = (coh[tr[:, None], below] >= FACE_COHERENCE) & inside
+    if sure.sum() < 3:
+        return ""
+    # where the surface steps by half a period or more per trace the
+    # foreset is spatially aliased and the tensor's dip sign is unreliable:
+    # only the dip magnitude is used (flat coherent reflections still show
+    # a step between layers)
+    aliased = np.percentile(np.abs(np.gradient(z_index)[tr]), 75) >= 0.5 * period_samples
+    med = float(np.median(np.abs(d[sure]) if aliased else d[sure]))
+    if med < FACE_DIP_AGREEMENT * abs(cand.slope_max_deg):
+        return (
+            f"reflections at the steepest point dip {med:.1f} deg basinward, much less than the surface's "
+            f"slope {cand.slope_max_deg:.1f} deg (a step between reflectors, not a depositional slope)"
+        )
     return ""
 
 

@@ -73,6 +73,13 @@ MAX_STEP_FRACTION = 0.35
 #: (common practice, no source)
 SLOPE_WIDTH_SMOOTHING_DIVISOR = 8.0
 MIN_FORESET_PICKED = 0.6
+#: mean over steepest gradient between break and toe below which the
+#: confidence is reduced in proportion (a tanh profile gives about 0.9
+#: between its curvature extremes) (our choice, no source)
+MIN_SLOPE_CONCENTRATION = 0.5
+#: confidence factor of a margin whose break or toe lies within one
+#: smoothing length of a line end (our choice, common practice, no source)
+EDGE_CONFIDENCE_FACTOR = 0.5
 
 
 def to_depth(section, trace, z, velocity):
@@ -226,6 +233,12 @@ def profile_candidates(
         seg = np.arange(lo, hi + 1)
         p = int(seg[np.argmax(gb[seg])])
         slope_max = float(np.degrees(np.arctan(gb[p])))
+        # within one smoothing length of a line end the smoothed profile is
+        # padded with its end value: a steepest point there is not imaged
+        edge = int(np.ceil(sig_leg))
+        if p < edge or p > n - 1 - edge:
+            logger.debug("surface %d leg %d-%d rejected: steepest point at trace %d within %d traces of the line end", path_rank, a, b, p, edge)
+            continue
         land = np.arange(lo, p + 1) if direction == "+" else np.arange(p, hi + 1)
         basin = np.arange(p, hi + 1) if direction == "+" else np.arange(lo, p + 1)
         reasons = []
@@ -238,6 +251,10 @@ def profile_candidates(
         if toe is None or kappa[toe] >= 0 or toe == p:
             toe_reason = "no concave-up bend basinward of the steepest point (toe beyond the line or no basin floor)"
             toe = None
+        at_end = []
+        for name_, pt in (("shelf break", brk), ("toe", toe)):
+            if pt is not None and (pt < edge or pt > n - 1 - edge):
+                at_end.append(name_)
         # landward top: from the landward end of the leg to the break (or steepest point)
         edge = brk if brk is not None else p
         top = np.arange(lo, edge + 1) if direction == "+" else np.arange(edge, hi + 1)
@@ -284,8 +301,25 @@ def profile_candidates(
             * min(1.0, np.log10(max(contrast, 1.0)) / np.log10(10.0)) ** 0.5
             * min(1.0, fq / 0.4) ** 0.5
         )
+        # a clinoform between its break and toe is one slope: its mean
+        # gradient is a sizeable part of its steepest (about 0.9 for a tanh
+        # profile between its curvature extremes); a low ratio means the
+        # steepest point is a local step on a long, gentler profile
+        run = abs(x[ref_b] - x[ref_a])
+        concentration = relief / max(run * gb[p], 1e-9)
+        conf *= min(1.0, concentration / MIN_SLOPE_CONCENTRATION)
         if brk is None or toe is None:
             conf *= 0.8
+        if at_end:
+            # a bend within one smoothing length of the line end is where the
+            # profile stops, not a measured bend: the slope is not imaged to
+            # its end, so the margin is only half supported
+            conf *= EDGE_CONFIDENCE_FACTOR
+            reasons_soft = " and ".join(at_end) + " at the line end (not imaged beyond it)"
+            if "toe" in at_end:
+                toe_reason = toe_reason or reasons_soft
+            if "shelf break" in at_end:
+                break_reason = break_reason or reasons_soft
         out.append(
             MarginCandidate(
                 path_rank=path_rank,

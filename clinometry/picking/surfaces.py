@@ -24,6 +24,7 @@ at 6.25 m or 25 m trace spacing and at 15 or 40 Hz.
 
 from __future__ import annotations
 
+import dataclasses
 import logging
 
 import numpy as np
@@ -32,7 +33,7 @@ from ..errors import PickingError
 from ..section import check_section, section_name
 from .condition import condition
 from .faces import slope_faces
-from .margins import profile_candidates, to_depth, velocity_at
+from .margins import EDGE_CONFIDENCE_FACTOR, profile_candidates, to_depth, velocity_at
 from .orientation import reflector_orientation
 from .assemble import (
     FACE_MIN_DIP_DEG,
@@ -46,6 +47,7 @@ from .assemble import (
     foreset_span,
     limit_slope,
     regularise,
+    steepest_unconfirmed,
     true_dip_deg,
 )
 from .picks import ClinoformPicks, Horizon, MarginPicks, PickPoint, Picks
@@ -101,6 +103,27 @@ def _horizon_pieces(zs, q, min_len, start_id, z_axis):
         if piece.size >= min_len:
             out.append((piece, np.interp(zs[piece], np.arange(z_axis.size), z_axis), q[piece]))
     return out
+
+
+def _record_edge(cand, z_index, n_z, period_samples):
+    """The candidate with its confidence reduced when its break or toe lies
+    within half a dominant period (the main lobe of the wavelet) of the top or
+    bottom of the record: a bend
+    there is where the surface leaves the image, not a measured bend."""
+    at = [
+        name
+        for name, t in (("shelf break", cand.shelf_break), ("toe", cand.toe))
+        if t is not None and not (0.5 * period_samples <= z_index[t] <= n_z - 1 - 0.5 * period_samples)
+    ]
+    if not at:
+        return cand
+    why = " and ".join(at) + " within half a period of the top or bottom of the record (not imaged beyond it)"
+    return dataclasses.replace(
+        cand,
+        confidence=cand.confidence * EDGE_CONFIDENCE_FACTOR,
+        break_reason=cand.break_reason or (why if "shelf break" in at else ""),
+        toe_reason=cand.toe_reason or (why if "toe" in at else ""),
+    )
 
 
 def pick_default(
@@ -238,11 +261,13 @@ def pick_default(
             if p.rank in face_ranks:
                 why = face_unconfirmed(c, p.z_index, dip_deg, coh, period_samples)
             else:
-                why = cuts_layering(c, p.z_index, dip, coh, period_samples)
+                why = cuts_layering(c, p.z_index, dip, coh, period_samples) or steepest_unconfirmed(
+                    c, p.z_index, dip_deg, coh, period_samples, smoothing / dx_m
+                )
             if why:
                 logger.debug("surface %d candidate at %s rejected: %s", p.rank, c.leg, why)
                 continue
-            cands.append(c)
+            cands.append(_record_edge(c, p.z_index, z_axis.size, period_samples))
 
     # group candidates that face the same way and overlap laterally
     groups = []
