@@ -214,20 +214,72 @@ def test_bundled_line_contract_margins_and_directions(name):
         assert abs(m["break"]["distance_m"] - t["break"]["distance_m"]) <= 300.0
 
 
+def _pairs(name):
+    d, truth = _bundled(name)
+    tm = {t["direction"]: t for t in truth["margins"]}
+    return [(m, tm[m["direction"]]) for m in d["margins"] if m["direction"] in tm]
+
+
+def _got_vs_truth(name, key):
+    out = []
+    for m, t in _pairs(name):
+        if key == "family":
+            out.append((m["direction"], m["family"], round(m["slope_max_deg"], 1), t["family"], round(t["slope_max_deg"], 1)))
+        else:
+            mt, tt = m["trajectory"] or {}, t.get("trajectory") or {}
+            out.append((m["direction"], mt.get("class"), None if mt.get("angle_deg") is None else round(mt["angle_deg"], 2),
+                        None if mt.get("flat_band_deg") is None else round(mt["flat_band_deg"], 2),
+                        tt.get("class"), None if tt.get("angle_deg") is None else round(tt["angle_deg"], 2)))
+    return out
+
+
+# Measured on the bundled lines with the picker of this commit (direction, got family, got
+# slope_max_deg, truth family, truth slope_max_deg); the mismatches come from picked profiles
+# steeper than the truth (picked break or toe off the true rollover), tracked in issue 6.
+_FAMILY_XFAIL = {
+    "isolated_platform": "[('-', 'steep_margin', 31.5, 'rimmed_shelf', 25.0), ('+', 'steep_margin', 32.9, 'rimmed_shelf', 25.0)]",
+    "noisy_shelf": "[('+', 'steep_margin', 33.4, 'rimmed_shelf', 20.0)]",
+    "rimmed_shelf": "[('+', 'steep_margin', 45.4, 'rimmed_shelf', 20.0)]",
+}
+# (direction, got class, got angle, got flat band, truth class, truth angle): the picker's
+# clinoform breaks are few, repeated or off their clinoforms, tracked in issue 6
+_TRAJECTORY_XFAIL = {
+    "falling_shelf": "[('+', 'flat', -3.96, 4.61, 'descending', -3.69)]",
+    "gentle_ramp": "[('+', None, None, None, 'ascending', 0.84)]",
+    "isolated_platform": "[('-', 'flat', -1.29, 1.51, 'ascending', 7.01), ('+', 'flat', -3.74, 5.31, 'ascending', 7.01)]",
+    "level_shelf": "[('-', 'ascending', 90.0, 0.1, 'flat', 0.02)]",
+    "rimmed_shelf": "[('+', 'descending', -6.41, 4.96, 'ascending', 3.25)]",
+    "steep_margin": "[('+', None, None, None, 'ascending', 6.13)]",
+}
+
+
+def _params(xfails):
+    return [pytest.param(n, marks=pytest.mark.xfail(strict=True, reason=f"{n}: measured {xfails[n]}"))
+            if n in xfails else n for n in LINES]
+
+
 @pytest.mark.skipif(not LINES, reason="synthetic_volumes/ not present")
-@pytest.mark.parametrize("name", LINES)
-def test_bundled_line_family_and_trajectory_match_truth(name):
+@pytest.mark.parametrize("name", _params(_FAMILY_XFAIL))
+def test_bundled_line_family_matches_truth(name):
+    # truth family from the forward model (clinometry.synth, slope bounds of Read 1985 /
+    # Schlager 2005 / Kenter 1990, from memory); the classifier must recover it from the picks
     d, truth = _bundled(name)
     got = sorted((m["direction"], m["family"]) for m in d["margins"])
-    exp = sorted((m["direction"], m["family"]) for m in truth["margins"])
-    if got != exp or any(
-        (m["trajectory"] or {}).get("class") != (t.get("trajectory") or {}).get("class")
-        for m in d["margins"] for t in truth["margins"] if t["direction"] == m["direction"]
-    ):
-        pytest.xfail(f"{name}: families/trajectories {[(m['direction'], m['family'], (m['trajectory'] or {}).get('class')) for m in d['margins']]}"
-                     f" vs truth {[(t['direction'], t['family'], (t.get('trajectory') or {}).get('class')) for t in truth['margins']]}"
-                     " (picker/metric accuracy is tracked in issue 6)")
-    assert got == exp
+    assert got == sorted((t["direction"], t["family"]) for t in truth["margins"]), _got_vs_truth(name, "family")
+
+
+@pytest.mark.skipif(not LINES, reason="synthetic_volumes/ not present")
+@pytest.mark.parametrize("name", _params(_TRAJECTORY_XFAIL))
+def test_bundled_line_trajectory_class_matches_truth(name):
+    # trajectory classes by sign after Helland-Hansen & Martinsen (1996, from memory)
+    pairs = _pairs(name)
+    assert len(pairs) == len(_bundled(name)[1]["margins"])
+    for m, t in pairs:
+        mt, tt = m["trajectory"], t.get("trajectory")
+        assert (mt or {}).get("class") == (tt or {}).get("class"), _got_vs_truth(name, "trajectory")
+        if mt is not None:
+            # the classifier's hint reads the same band as the metric
+            assert m["hints"]["trajectory_class"] == mt["class"]
 
 
 def test_thresholds_toml_override_changes_family_and_is_recorded(tmp_path):
@@ -250,3 +302,37 @@ def test_unknown_classifier_fails_before_picking_and_lists_installed():
     sec, h = _foreset_horizon()
     with pytest.raises(PluginError, match=r"no classifier plugin named 'nope'; installed: .*rules"):
         measure(h, sec, velocity=V_M_S, classifier="nope")
+
+
+def test_default_run_reports_p10_p50_p90_of_slope_relief_and_break_depth():
+    # uncertainty is on by default: 8 % one-sigma velocity error (common practice, no source)
+    # scales every depth, so relief P10/P90 ~ relief * (1 -/+ 1.2816 * 0.08) (z of the 90th
+    # percentile, standard normal table) plus a little pick error
+    sec, h = _foreset_horizon(dip_deg=20.0, relief_ms=300.0)
+    d = measure(h, sec, velocity=V_M_S).to_dict()
+    (m,) = d["margins"]
+    unc = m["uncertainty"]
+    for key in ("slope_max_deg", "slope_mean_deg", "relief_m", "break_depth_m"):
+        p = unc[key]
+        assert p["p10"] < p["p50"] < p["p90"], key
+    npt.assert_allclose(unc["relief_m"]["p50"], m["relief_m"], rtol=0.02)
+    npt.assert_allclose([unc["relief_m"]["p10"], unc["relief_m"]["p90"]],
+                        [m["relief_m"] * (1 - 1.2816 * 0.08), m["relief_m"] * (1 + 1.2816 * 0.08)], rtol=0.03)
+    npt.assert_allclose(unc["break_depth_m"]["p50"], m["break"]["depth_m"], rtol=0.02)
+    assert d["run"]["uncertainty"]["n_draws"] == 200
+
+
+@pytest.mark.skipif("rising_shelf" not in LINES, reason="synthetic_volumes/ not present")
+def test_trajectory_flat_tolerance_from_threshold_table_reaches_the_metric():
+    # a 30 deg flat tolerance swallows any measured trajectory angle of the rising shelf
+    # (truth ~11 deg): the metric's class and the classifier's hint must both read it
+    truth = json.loads((BUNDLED / "rising_shelf.truth.json").read_text())
+    v = truth["velocity"]
+    d = analyze(BUNDLED / "rising_shelf.sgy", velocity_linear=(v["v0_m_s"], v["k_per_s"]), uncertainty=False,
+                thresholds={"trajectory_flat_deg": 30.0}).to_dict()
+    trajs = [m for m in d["margins"] if m["trajectory"] is not None]
+    assert trajs
+    for m in trajs:
+        assert m["trajectory"]["flat_tolerance_deg"] == 30.0
+        assert m["trajectory"]["flat_band_deg"] >= 30.0
+        assert m["trajectory"]["class"] == m["hints"]["trajectory_class"] == "flat"

@@ -28,8 +28,9 @@ agreement))`` with ``agreement`` the fraction of secondary checks that agree
 confidence 0.5.
 
 Hints go beyond the family: the slope-fabric class after Kenter (1990) and
-the shelf-break trajectory class with the table's flat band (Helland-Hansen
-& Martinsen 1996).  Every reason quotes the value, the bound and its source.
+the shelf-break trajectory class with the table's flat band widened to the
+angle's own P10-P90 uncertainty (Helland-Hansen & Martinsen 1996; see
+:mod:`clinometry.metrics.trajectory`).  Every reason quotes the value, the bound and its source.
 """
 
 from __future__ import annotations
@@ -39,6 +40,7 @@ import math
 
 import numpy as np
 
+from ..metrics.trajectory import P10_P90_SIGMAS
 from .records import FAMILIES, Classification
 from .thresholds import DEFAULT_THRESHOLDS, check_thresholds
 
@@ -237,10 +239,17 @@ def classify_rules(metrics, *, thresholds=None) -> Classification:
     traj = m.get("trajectory")
     if isinstance(traj, dict) and _num(traj, "angle_deg") is not None:
         a = float(traj["angle_deg"])
-        cls = "flat" if abs(a) <= t["trajectory_flat_deg"] else ("ascending" if a > 0 else "descending")
+        sigma = _num(traj, "angle_sigma_deg")
+        band = max(t["trajectory_flat_deg"], P10_P90_SIGMAS * sigma if sigma is not None else 0.0)
+        if sigma is None and traj.get("sign_resolved") is not None:
+            cls = ("ascending" if a > 0 else "descending") if traj["sign_resolved"] else "flat"
+        else:
+            cls = "flat" if abs(a) <= band else ("ascending" if a > 0 else "descending")
         hints["trajectory_class"] = cls
+        spread = (f" (the larger of the tolerance ±{t['trajectory_flat_deg']:.2f}° and 1.28 times the "
+                  f"angle's uncertainty {sigma:.2f}° from the break picks)") if sigma is not None else ""
         hints["trajectory_reason"] = (
-            f"shelf-break trajectory {a:.2f}° is {cls} with the flat band ±{t['trajectory_flat_deg']:.2f}° "
+            f"shelf-break trajectory {a:.2f}° is {cls} with the flat band ±{band:.2f}°{spread} "
             f"({_cite('trajectory_flat_deg')})")
     return Classification(
         family=family,

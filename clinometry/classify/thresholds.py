@@ -88,9 +88,10 @@ DEFAULT_THRESHOLDS = MappingProxyType({
         35.0, "deg", "steepest slope of grain-dominated (non-cohesive sand) flanks, near the angle of repose",
         "Kenter (1990) Sedimentology 37: 777-794 (from memory)", "Kenter 1990, from memory"),
     "trajectory_flat_deg": Threshold(
-        TRAJECTORY_FLAT_DEG, "deg", "half-width of the flat shelf-break trajectory band",
+        TRAJECTORY_FLAT_DEG, "deg", "smallest half-width of the flat shelf-break trajectory band (the band "
+        "widens to 1.28 sigma of the measured angle where the break picks resolve less)",
         "classes by sign after Helland-Hansen, W. & Martinsen, O. J. (1996) J. Sed. Res. 66: 670-688 "
-        "(from memory); band chosen here (see clinometry.metrics.trajectory)",
+        "(from memory); tolerance chosen here (see clinometry.metrics.trajectory)",
         "Helland-Hansen & Martinsen 1996, band chosen here"),
     "log_slope_width": Threshold(
         0.25, "1", "width of the logistic score in ln(slope): how fast confidence grows away from a bound",

@@ -22,13 +22,44 @@ clinoforms the picker found, oldest to youngest:
 * ratio = aggradation_m / progradation_m (A/P);
 * step_angles_deg: the same angle for each successive pair of breaks.
 
-The class is ``flat`` when ``|angle_deg| <= flat_deg`` and otherwise
-``ascending`` or ``descending`` by its sign.  The band
-:data:`TRAJECTORY_FLAT_DEG` is chosen here, not taken from the paper (which
-classes by sign): 0.1 deg is about one depth sample (~5 m) over 3 km of
-progradation, the smallest rise a seismic line of usual resolution can show,
-so a smaller angle has no resolvable sign.  It is part of the threshold table
-of :mod:`clinometry.classify.thresholds` and can be overridden there.
+How sure the sign is
+--------------------
+A break is picked to about one sample in depth and one trace along the line
+(the pick errors of :mod:`clinometry.metrics.uncertainty`), and the velocity
+scales every aggradation by its error.  The standard error of the fitted
+slope is the larger of
+
+* the *a-priori* error ``sigma_d / sqrt(Sxx)``, with ``sigma_d^2 =
+  sigma_z^2 + (slope * sigma_x)^2`` (depth error plus the position error seen
+  along the path) and ``Sxx`` the sum of squared distances of the breaks from
+  their mean, plus the velocity share ``slope * velocity_sigma_fraction`` in
+  quadrature; and
+* the *a-posteriori* error from the scatter of the breaks about the line,
+  ``sqrt(sum(r^2) / (n - 2) / Sxx)`` (three or more breaks),
+
+the usual standard error of a least-squares slope (e.g. Press et al.,
+Numerical Recipes, ch. 15; from memory); taking the larger of the two is
+common practice (no source).  It is reported as ``angle_sigma_deg`` with
+``angle_p10_deg`` / ``angle_p90_deg`` (normal, +-1.2816 sigma, the same
+P10/P90 as the other uncertainties).
+
+The class is ``flat`` when ``|angle_deg| <= flat_band_deg`` with
+
+    flat_band_deg = max(flat_tolerance_deg, 1.2816 * angle_sigma_deg)
+
+and otherwise ``ascending`` or ``descending`` by its sign: *flat* means that
+the breaks show no rise or fall that the picks can resolve (the P10-P90
+range of the angle includes zero), never a sign read off pick noise;
+``sign_resolved`` and ``class_reason`` say which case applies.  The
+tolerance :data:`TRAJECTORY_FLAT_DEG` (0.1 deg, chosen here: about one depth
+sample over 1.5 km of progradation) is part of the threshold table of
+:mod:`clinometry.classify.thresholds` and can be overridden there; the
+classes by sign follow Helland-Hansen & Martinsen (1996).
+
+Breaks that repeat an earlier one (same trace, depth within half a sample:
+the same surface tracked twice) are counted once.  When all breaks sit on
+one trace, the path is vertical (pure aggradation, +-90 deg) if the depth
+change exceeds 1.2816 * sqrt(2) depth errors, else flat.
 """
 
 from __future__ import annotations
@@ -37,22 +68,29 @@ import logging
 
 import numpy as np
 
-__all__ = ["TRAJECTORY_FLAT_DEG", "trajectory_from_breaks", "trajectory_metrics"]
+__all__ = ["TRAJECTORY_FLAT_DEG", "P10_P90_SIGMAS", "trajectory_from_breaks", "trajectory_metrics"]
 
 logger = logging.getLogger(__name__)
 
-#: half-width of the "flat" trajectory band, degrees (chosen here: ~one depth
-#: sample over 3 km of progradation; classes by sign after Helland-Hansen &
-#: Martinsen 1996, J. Sed. Res. 66: 670-688, from memory)
+#: half-width of the "flat" trajectory band when the picks resolve better,
+#: degrees (chosen here: ~one 2.5 m depth sample over 1.5 km of progradation;
+#: classes by sign after Helland-Hansen & Martinsen 1996, J. Sed. Res. 66:
+#: 670-688, from memory)
 TRAJECTORY_FLAT_DEG = 0.1
+#: the 90th percentile of the standard normal distribution: P10/P90 are
+#: mean -/+ 1.2816 sigma (standard normal table, e.g. Abramowitz & Stegun
+#: 1964, table 26.1; from memory)
+P10_P90_SIGMAS = 1.2815515655446004
 
 
 def _angle(aggradation, progradation):
     return float(np.degrees(np.arctan2(aggradation, abs(progradation))))
 
 
-def trajectory_from_breaks(basinward_m, depth_m, *, flat_deg: float = TRAJECTORY_FLAT_DEG) -> dict:
-    """Trajectory angle, distances and class from break positions, oldest first.
+def trajectory_from_breaks(basinward_m, depth_m, *, flat_deg: float = TRAJECTORY_FLAT_DEG,
+                           depth_sigma_m: float = 0.0, position_sigma_m: float = 0.0,
+                           velocity_sigma_fraction: float = 0.0) -> dict:
+    """Trajectory angle, its uncertainty, distances and class from break positions, oldest first.
 
     Parameters
     ----------
@@ -61,21 +99,32 @@ def trajectory_from_breaks(basinward_m, depth_m, *, flat_deg: float = TRAJECTORY
     depth_m : array_like, shape (n,), m
         Depth of each break, positive down.
     flat_deg : float, degrees
-        Half-width of the flat band.
+        Smallest half-width of the flat band (the tolerance).
+    depth_sigma_m : float, m
+        One-sigma depth error of a break pick.
+    position_sigma_m : float, m
+        One-sigma error of a break position along the line.
+    velocity_sigma_fraction : float
+        One-sigma relative velocity error (scales the aggradation).
 
     Returns
     -------
     dict
-        ``angle_deg`` (least-squares), ``net_angle_deg``, ``class``,
-        ``progradation_m``, ``aggradation_m``,
-        ``ratio`` (None when progradation is 0), ``step_angles_deg``,
-        ``n_breaks``, ``backstepping``, ``flat_band_deg``.
+        ``angle_deg`` (least-squares), ``angle_sigma_deg`` (None for breaks
+        on one trace), ``angle_p10_deg``, ``angle_p90_deg``,
+        ``net_angle_deg``, ``class``, ``sign_resolved``, ``class_reason``,
+        ``flat_tolerance_deg``, ``flat_band_deg``, ``progradation_m``,
+        ``aggradation_m``, ``ratio`` (None when progradation is 0),
+        ``step_angles_deg``, ``n_breaks``, ``backstepping``.
 
     References
     ----------
     .. [1] Helland-Hansen, W. & Martinsen, O. J. (1996). Shoreline trajectory
        and sequences: description of variable depositional-dip scenarios.
        Journal of Sedimentary Research 66: 670-688.
+    .. [2] Press, W. H., Teukolsky, S. A., Vetterling, W. T. & Flannery,
+       B. P. (2007). Numerical Recipes, 3rd ed., ch. 15 (standard error of a
+       fitted straight line; from memory).
 
     Notes
     -----
@@ -87,6 +136,9 @@ def trajectory_from_breaks(basinward_m, depth_m, *, flat_deg: float = TRAJECTORY
     >>> t = trajectory_from_breaks([0.0, 1000.0], [300.0, 282.5])
     >>> round(t["angle_deg"], 3), t["class"]
     (1.003, 'ascending')
+    >>> t = trajectory_from_breaks([0.0, 400.0], [300.0, 297.5], depth_sigma_m=2.5)
+    >>> round(t["angle_deg"], 2), round(t["flat_band_deg"], 2), t["class"]
+    (0.36, 0.65, 'flat')
     """
     b = np.asarray(basinward_m, dtype=float)
     d = np.asarray(depth_m, dtype=float)
@@ -96,42 +148,104 @@ def trajectory_from_breaks(basinward_m, depth_m, *, flat_deg: float = TRAJECTORY
     aggr = float(d[0] - d[-1])
     net = _angle(aggr, prog)
     sense = -1.0 if prog < 0 else 1.0
-    if b.size > 2 and np.ptp(b) > 0:
-        angle = float(np.degrees(np.arctan(np.polyfit(sense * b, -d, 1)[0])))
+    x = sense * b
+    sxx = float(np.sum((x - x.mean()) ** 2))
+    z = P10_P90_SIGMAS
+    if sxx > 0:
+        # two breaks (sxx > 0 means prog != 0): the line through them
+        slope = float(np.polyfit(x, -d, 1)[0]) if b.size > 2 else aggr / abs(prog)
+        angle = float(np.degrees(np.arctan(slope))) if b.size > 2 else net
+        var_prior = (depth_sigma_m ** 2 + (slope * position_sigma_m) ** 2) / sxx + (slope * velocity_sigma_fraction) ** 2
+        var_post = 0.0
+        if b.size > 2:
+            resid = -d - np.polyval(np.polyfit(x, -d, 1), x)
+            var_post = float(np.sum(resid ** 2)) / (b.size - 2) / sxx
+        sig_slope = float(np.sqrt(max(var_prior, var_post)))
+        sigma = float(np.degrees(sig_slope / (1.0 + slope * slope)))
+        p10 = float(np.degrees(np.arctan(slope - z * sig_slope)))
+        p90 = float(np.degrees(np.arctan(slope + z * sig_slope)))
+        band = max(float(flat_deg), z * sigma)
+        resolved = abs(angle) > band
     else:
-        angle = net
-    cls = "flat" if abs(angle) <= flat_deg else ("ascending" if angle > 0 else "descending")
+        # every break on one trace: a vertical path (pure aggradation) or none
+        angle = net if prog == 0 else _angle(aggr, prog)
+        sigma = None
+        p10 = p90 = None
+        band = float(flat_deg)
+        resolved = abs(aggr) > z * np.sqrt(2.0) * depth_sigma_m and aggr != 0
+        if not resolved:
+            angle = 0.0 if aggr == 0 else angle
+    if resolved:
+        cls = "ascending" if angle > 0 else "descending"
+        why = (f"angle {angle:.2f}° is outside the flat band ±{band:.2f}° "
+               + ("(the tolerance)" if band == flat_deg else "(1.28 sigma of the angle from the pick scatter)"))
+    else:
+        cls = "flat"
+        why = (f"angle {angle:.2f}° is within the flat band ±{band:.2f}° "
+               + ("(the tolerance)" if band == flat_deg and sigma is not None else
+                  "(1.28 sigma of the angle from the pick scatter)" if sigma is not None else
+                  "(breaks on one trace; depth change within the pick error)")
+               + ": no rise or fall the breaks can resolve")
     steps = [_angle(d[i] - d[i + 1], b[i + 1] - b[i]) for i in range(b.size - 1)]
     return {
         "angle_deg": angle,
+        "angle_sigma_deg": sigma,
+        "angle_p10_deg": p10,
+        "angle_p90_deg": p90,
         "net_angle_deg": net,
         "class": cls,
+        "sign_resolved": bool(resolved),
+        "class_reason": why,
+        "flat_tolerance_deg": float(flat_deg),
+        "flat_band_deg": float(band),
         "progradation_m": prog,
         "aggradation_m": aggr,
         "ratio": aggr / prog if prog != 0 else None,
         "step_angles_deg": steps,
         "n_breaks": int(b.size),
         "backstepping": bool(prog < 0),
-        "flat_band_deg": float(flat_deg),
     }
 
 
-def trajectory_metrics(geometry, *, flat_deg: float = TRAJECTORY_FLAT_DEG) -> dict:
-    """Shelf-break trajectory (angle, progradation, aggradation, class) after Helland-Hansen & Martinsen (1996).
+def _unique_breaks(geometry):
+    """Clinoform breaks oldest first, a break repeating the previous kept one counted once."""
+    out, dropped = [], 0
+    half = 0.5 * geometry.depth_sample_m
+    for c in geometry.clinoforms:
+        p = c.shelf_break
+        if p is None:
+            continue
+        if any(q["trace"] == p["trace"] and abs(q["depth_m"] - p["depth_m"]) <= half for q in out):
+            dropped += 1
+            continue
+        out.append(p)
+    return out, dropped
+
+
+def trajectory_metrics(geometry, *, flat_deg: float = TRAJECTORY_FLAT_DEG, pick_sigma_samples: float = 1.0,
+                       pick_sigma_traces: float = 1.0, velocity_sigma_fraction: float = 0.08) -> dict:
+    """Shelf-break trajectory (angle with its uncertainty, progradation, aggradation, class) after Helland-Hansen & Martinsen (1996).
 
     Parameters
     ----------
     geometry : MarginGeometry
         Its clinoforms, oldest to youngest; those without a picked break are
-        skipped.
+        skipped, a break repeating an earlier one is counted once.
     flat_deg : float, degrees
-        Half-width of the flat band (:data:`TRAJECTORY_FLAT_DEG`).
+        Tolerance of the flat band (:data:`TRAJECTORY_FLAT_DEG`).
+    pick_sigma_samples, pick_sigma_traces : float
+        One-sigma pick errors of a break, in samples (converted with the
+        geometry's depth sample) and trace spacings; the defaults are those
+        of :data:`clinometry.metrics.uncertainty.UNCERTAINTY_DEFAULTS`.
+    velocity_sigma_fraction : float
+        One-sigma relative velocity error (TWT sections only).
 
     Returns
     -------
     dict
         ``{"trajectory": {...}}`` (see :func:`trajectory_from_breaks`, plus
-        ``breaks``: contract points of the breaks used), or
+        ``breaks``: contract points of the breaks used, ``n_repeated_breaks``,
+        ``resolvable_angle_deg``), or
         ``{"trajectory": None, "missing": {"trajectory": reason}}``.
 
     References
@@ -139,13 +253,20 @@ def trajectory_metrics(geometry, *, flat_deg: float = TRAJECTORY_FLAT_DEG) -> di
     .. [1] Helland-Hansen, W. & Martinsen, O. J. (1996). Journal of
        Sedimentary Research 66: 670-688.
     """
-    brks = [c.shelf_break for c in geometry.clinoforms if c.shelf_break is not None]
+    brks, dropped = _unique_breaks(geometry)
     if len(brks) < 2:
         n = len(geometry.clinoforms)
+        rep = f" ({dropped} repeating an earlier break)" if dropped else ""
         return {"trajectory": None, "missing": {"trajectory": (
-            f"{len(brks)} clinoform break(s) picked out of {n} clinoform(s); a trajectory needs 2 or more")}}
-    t = trajectory_from_breaks([p["basinward_m"] for p in brks], [p["depth_m"] for p in brks], flat_deg=flat_deg)
+            f"{len(brks) + dropped} clinoform break(s) picked out of {n} clinoform(s){rep}; "
+            "a trajectory needs 2 or more distinct breaks")}}
+    t = trajectory_from_breaks(
+        [p["basinward_m"] for p in brks], [p["depth_m"] for p in brks], flat_deg=flat_deg,
+        depth_sigma_m=pick_sigma_samples * geometry.depth_sample_m,
+        position_sigma_m=pick_sigma_traces * geometry.trace_spacing_m,
+        velocity_sigma_fraction=velocity_sigma_fraction if geometry.domain == "twt" else 0.0)
     t["breaks"] = [geometry.pick_point(p) for p in brks]
+    t["n_repeated_breaks"] = int(dropped)
     # the smallest angle whose sign one depth sample can resolve over this progradation
     if t["progradation_m"] != 0:
         t["resolvable_angle_deg"] = float(np.degrees(np.arctan(geometry.depth_sample_m / abs(t["progradation_m"]))))

@@ -128,13 +128,36 @@ def _thresholds(thresholds):
     return check_thresholds(thresholds, where="thresholds"), "mapping given by the caller"
 
 
+def _trajectory_options(table, uncertainty, seed) -> dict:
+    """Options of the built-in trajectory metric: the table's flat tolerance and the run's pick errors.
+
+    So the class in ``margins[].trajectory`` and the classifier's hint use
+    the same band (see :mod:`clinometry.metrics.trajectory`).
+    """
+    from ..metrics.trajectory import trajectory_metrics
+    from ..metrics.uncertainty import UNCERTAINTY_DEFAULTS, uncertainty_settings
+
+    try:
+        builtin = load_plugin("metric", "trajectory") is trajectory_metrics
+    except ClinometryError:
+        builtin = False
+    if not builtin:
+        return {}
+    st = uncertainty_settings(uncertainty, seed=seed) or UNCERTAINTY_DEFAULTS
+    return {"trajectory": {"flat_deg": float(table["trajectory_flat_deg"]),
+                           "pick_sigma_samples": float(st["pick_sigma_samples"]),
+                           "pick_sigma_traces": float(st["pick_sigma_traces"]),
+                           "velocity_sigma_fraction": float(st["velocity_sigma_fraction"])}}
+
+
 def _finish(section, path, picks, model, vdict, fallback, *, classifier, table, thresholds_source, uncertainty,
             seed, metrics_plugins, run_extra, notes):
     from ..classify import classify
     from ..metrics import measure as measure_metrics
 
     metrics = measure_metrics(
-        picks, section, velocity=model, metrics=metrics_plugins, uncertainty=uncertainty, seed=seed
+        picks, section, velocity=model, metrics=metrics_plugins, uncertainty=uncertainty, seed=seed,
+        options=_trajectory_options(table, uncertainty, seed),
     )
     classes = tuple(classify(mm, classifier=classifier, thresholds=table) for mm in metrics.margins)
     fallbacks = list(section.attrs.get("fallbacks", []) or [])

@@ -109,6 +109,17 @@ def test_trajectory_hint_uses_table_band():
     assert classify(m, thresholds={"trajectory_flat_deg": 0.5}).hints["trajectory_class"] == "flat"
 
 
+def test_trajectory_hint_band_widens_to_the_angle_uncertainty():
+    # 0.3 deg with a 0.3 deg one-sigma error: P10-P90 = 0.3 -/+ 1.2816 * 0.3 includes zero
+    # (z of the 90th percentile, standard normal table), so flat whatever the 0.1 deg tolerance
+    m = {"slope_max_deg": 12.0, "trajectory": {"angle_deg": 0.3, "angle_sigma_deg": 0.3, "class": "flat"}}
+    c = classify(m)
+    assert c.hints["trajectory_class"] == "flat"
+    assert "±0.38°" in c.hints["trajectory_reason"] and "uncertainty 0.30°" in c.hints["trajectory_reason"]
+    m["trajectory"]["angle_sigma_deg"] = 0.1
+    assert classify(m).hints["trajectory_class"] == "ascending"
+
+
 def test_classify_from_margin_metrics_and_unknown_classifier():
     mm = MarginMetrics(direction="-", values={"slope_max_deg": 0.3}, trajectory=None)
     assert classify(mm).family == "ramp"

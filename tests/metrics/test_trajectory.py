@@ -83,3 +83,67 @@ def test_least_squares_angle_through_several_breaks():
     back = trajectory_from_breaks([3000.0, 2000.0, 1000.0, 0.0], [300.0, 290.0, 295.0, 280.0])
     assert_allclose(back["angle_deg"], 0.3151236, rtol=1e-6)
     assert back["backstepping"] is True
+
+
+def test_flat_band_widens_to_the_pick_uncertainty_hand_computed():
+    # two breaks 400 m apart, 2.5 m rise, 2.5 m depth error each, no position error:
+    # Sxx = 2 * 200^2 = 80000 m^2, sigma_slope = 2.5 / sqrt(80000) = 0.0088388,
+    # sigma_angle = deg(0.0088388 / (1 + 0.00625^2)) = 0.506419 deg; band = 1.2816 sigma
+    # = 0.649 deg (standard error of a least-squares slope, Press et al. 2007, Numerical
+    # Recipes ch. 15, from memory; 1.2816 = z of the 90th percentile, standard normal table)
+    t = trajectory_from_breaks([0.0, 400.0], [300.0, 297.5], depth_sigma_m=2.5)
+    assert_allclose(t["angle_deg"], np.degrees(np.arctan(2.5 / 400.0)), rtol=1e-12)
+    assert_allclose(t["angle_sigma_deg"], np.degrees(0.0088388347648 / (1 + 0.00625 ** 2)), rtol=1e-9)
+    assert_allclose(t["flat_band_deg"], 1.2815515655 * t["angle_sigma_deg"], rtol=1e-9)
+    assert t["class"] == "flat" and t["sign_resolved"] is False
+    assert t["angle_p10_deg"] < 0 < t["angle_p90_deg"]
+    assert "no rise or fall the breaks can resolve" in t["class_reason"]
+    # over 4 km: sigma = deg(2.5 / sqrt(2 * 2000^2)) = 0.0506 deg, band = the 0.1 deg tolerance,
+    # and a 25 m rise (atan(25 / 4000) = 0.358 deg) is ascending
+    far = trajectory_from_breaks([0.0, 4000.0], [300.0, 275.0], depth_sigma_m=2.5)
+    assert far["class"] == "ascending" and far["sign_resolved"] is True
+    assert far["angle_p10_deg"] > 0
+
+
+def test_scatter_of_many_breaks_sets_the_band():
+    # five breaks on a 1 deg rising line with +-6 m alternating scatter: the a-posteriori
+    # error from the residuals exceeds the 1 m a-priori error and makes the class flat
+    b = np.array([0.0, 100.0, 200.0, 300.0, 400.0])
+    d = 300.0 - b * np.tan(np.radians(1.0)) + np.array([6.0, -6.0, 6.0, -6.0, 6.0])
+    t = trajectory_from_breaks(b, d, depth_sigma_m=1.0)
+    # residual standard error by hand: polyfit residuals r, sqrt(sum r^2 / (n - 2) / Sxx)
+    x = b
+    fit = np.polyfit(x, -d, 1)
+    r = -d - np.polyval(fit, x)
+    se = np.sqrt(np.sum(r ** 2) / 3 / np.sum((x - x.mean()) ** 2))
+    assert_allclose(t["angle_sigma_deg"], np.degrees(se / (1 + fit[0] ** 2)), rtol=1e-9)
+    assert t["class"] == "flat"
+    # without the scatter the same line is ascending
+    assert trajectory_from_breaks(b, 300.0 - b * np.tan(np.radians(1.0)), depth_sigma_m=1.0)["class"] == "ascending"
+
+
+def test_breaks_on_one_trace_are_vertical_or_flat():
+    # all breaks on one trace: pure aggradation (+90 deg) when the rise exceeds
+    # 1.28 * sqrt(2) depth errors, else flat (nothing resolved)
+    up = trajectory_from_breaks([500.0, 500.0], [300.0, 280.0], depth_sigma_m=2.5)
+    assert (up["angle_deg"], up["class"], up["angle_sigma_deg"]) == (90.0, "ascending", None)
+    same = trajectory_from_breaks([500.0, 500.0], [300.0, 298.0], depth_sigma_m=2.5)
+    assert same["class"] == "flat" and same["sign_resolved"] is False
+
+
+def test_repeated_clinoform_break_counted_once(build_margin, planar):
+    # two clinoforms tracked on the same surface (same break) plus one older: two distinct breaks
+    clinos = [(planar(20.0, top_m=300.0, x_break=500.0, x_toe=900.0), 20, 36),
+              (planar(20.0, top_m=280.0, x_break=1000.0, x_toe=1400.0), 40, 56),
+              (planar(20.0, top_m=280.0, x_break=1000.0, x_toe=1400.0), 40, 56)]
+    picks, section = build_margin(planar(20.0, top_m=280.0), clinoforms=clinos, dz=1.0)
+    t = trajectory_metrics(margin_geometry(picks, picks.margins[0], section))["trajectory"]
+    assert t["n_breaks"] == 2 and t["n_repeated_breaks"] == 1
+    # 20 m rise over 500 m: atan(0.04) = 2.29 deg, well outside the band
+    assert_allclose(t["angle_deg"], np.degrees(np.arctan(0.04)), rtol=1e-9)
+    assert t["class"] == "ascending"
+    only = [(planar(20.0, top_m=280.0, x_break=1000.0, x_toe=1400.0), 40, 56)] * 2
+    picks, section = build_margin(planar(20.0, top_m=280.0), clinoforms=only, dz=1.0)
+    out = trajectory_metrics(margin_geometry(picks, picks.margins[0], section))
+    assert out["trajectory"] is None
+    assert "1 repeating an earlier break" in out["missing"]["trajectory"]
