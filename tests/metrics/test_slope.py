@@ -232,3 +232,32 @@ def test_clinoform_without_finite_points_is_missing_not_an_error(build_margin, p
     assert c[0]["slope_max_deg"] is None
     assert c[0]["missing"]["slope_max_deg"] == "clinoform 10: 0 finite point(s) on the surface; need 2"
     assert c[1]["slope_max_deg"] == pytest.approx(20.0)
+
+
+@pytest.mark.parametrize("name", ["rimmed_shelf", "level_shelf", "gentle_ramp", "steep_margin", "deep_factory_shelf"])
+def test_metrics_on_the_exact_grown_surface_reproduce_the_truth_slope(name):
+    # the forward model's truth (clinometry.synth) and the metrics share one max-slope
+    # definition: measured on the exact youngest surface with the truth's break and toe,
+    # in a depth section sampled at the truth's depth sample (v * dt / 2 = 2.5 m for
+    # 2500 m/s and 2 ms, Sheriff & Geldart 1995, from memory), the metric equals the truth
+    # up to the half-trace grid of the metric
+    from clinometry.picking.picks import Horizon, MarginPicks, PickPoint, Picks
+    from clinometry.section import make_section
+    from clinometry.synth import make_line
+    from clinometry.synth.lines import grown_surfaces
+
+    _, truth = make_line(name, n_samples=10, noise=False)
+    (m,) = truth["margins"]
+    assert truth["velocity"]["model"] == "constant"
+    dsample = truth["velocity"]["v_m_s"] * truth["sample_interval"] / 2000.0
+    final = grown_surfaces(name)[-1]
+    n = final.size
+    z = np.arange(0.0, float(final.max()) + 50.0, dsample)
+    sec = make_section(np.zeros((n, z.size), np.float32), z=z, domain="depth", trace_spacing_m=truth["trace_spacing_m"])
+    b, t = m["break"]["trace"], m["toe"]["trace"]
+    h = Horizon(0, "margin_profile", np.arange(n), final.astype(float), np.ones(n))
+    mp = MarginPicks(m["direction"], 0, 0, PickPoint(b, float(final[b])), PickPoint(t, float(final[t])))
+    got = measure(Picks(horizons=(h,), margins=(mp,)), sec, metrics=["slope"], uncertainty=False).margins[0].values
+    assert_allclose(got["relief_m"], m["relief_m"], rtol=1e-9)
+    assert_allclose(got["slope_mean_deg"], m["slope_mean_deg"], rtol=1e-9)
+    assert_allclose(got["slope_max_deg"], m["slope_max_deg"], atol=0.01)
