@@ -73,7 +73,9 @@ BASE_LENGTH_TRACES = 4
 #: foreset gradient (as clinometry.metrics.slope)
 SLOPE_PRECISION_FRACTION = 0.1
 #: trajectory angles within +/- this are "flat", degrees (project choice; the
-#: same value as the trajectory metric of clinometry.metrics uses)
+#: tolerance of the trajectory metric of clinometry.metrics, whose band also
+#: widens to the angle's pick uncertainty -- the truth's breaks are exact, so
+#: here the tolerance alone applies)
 TRAJECTORY_FLAT_DEG = 0.1
 #: a profile with less break-to-toe relief has no margin, m (project choice)
 MIN_RELIEF_M = 10.0
