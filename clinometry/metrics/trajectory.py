@@ -175,7 +175,11 @@ def trajectory_from_breaks(basinward_m, depth_m, *, flat_deg: float = TRAJECTORY
         resolved = abs(aggr) > z * np.sqrt(2.0) * depth_sigma_m and aggr != 0
         if not resolved:
             angle = 0.0 if aggr == 0 else angle
-    if resolved:
+    if resolved and sigma is None:
+        cls = "ascending" if angle > 0 else "descending"
+        why = (f"all breaks on one trace, {abs(aggr):.1f} m apart in depth (more than 1.28 * sqrt(2) depth "
+               f"errors of {depth_sigma_m:.1f} m): a vertical path, pure {'aggradation' if aggr > 0 else 'fall'}")
+    elif resolved:
         cls = "ascending" if angle > 0 else "descending"
         why = (f"angle {angle:.2f}° is outside the flat band ±{band:.2f}° "
                + ("(the tolerance)" if band == flat_deg else "(1.28 sigma of the angle from the pick scatter)"))

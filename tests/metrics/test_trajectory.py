@@ -127,6 +127,7 @@ def test_breaks_on_one_trace_are_vertical_or_flat():
     # 1.28 * sqrt(2) depth errors, else flat (nothing resolved)
     up = trajectory_from_breaks([500.0, 500.0], [300.0, 280.0], depth_sigma_m=2.5)
     assert (up["angle_deg"], up["class"], up["angle_sigma_deg"]) == (90.0, "ascending", None)
+    assert "pure aggradation" in up["class_reason"] and "20.0 m apart" in up["class_reason"]
     same = trajectory_from_breaks([500.0, 500.0], [300.0, 298.0], depth_sigma_m=2.5)
     assert same["class"] == "flat" and same["sign_resolved"] is False
 
