@@ -70,7 +70,7 @@ DEFAULT_THRESHOLDS = MappingProxyType({
     "flat_topset_max_deg": Threshold(
         0.1, "deg", "largest platform-top dip still read as flat (rimmed shelf / flat-topped platform)",
         "Read (1985): rimmed shelves have a flat top behind the rim (from memory); 0.1 deg (~1.7 m/km) "
-        "chosen here, about one depth sample over 3 km",
+        "chosen here, about two 2.5 m depth samples over 3 km",
         "Read 1985, bound chosen here"),
     "sharp_break_min_curvature_per_km": Threshold(
         0.1, "1/km", "break curvature above which the shelf break is sharp (rimmed shelf) not gradual (ramp)",
