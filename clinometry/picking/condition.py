@@ -50,6 +50,7 @@ __all__ = [
     "envelope",
     "dominant_period",
     "condition",
+    "open_rectangle",
 ]
 
 logger = logging.getLogger(__name__)
@@ -296,3 +297,45 @@ def condition(data, dz: float, *, known_dead=()) -> Conditioned:
     env = envelope(bal)
     logger.debug("conditioned: %d dead traces, dominant period %.3g", int(dead.sum()), period)
     return Conditioned(amplitude=bal, envelope=env, dead=dead, period_z=period, notes=tuple(notes))
+
+
+def open_rectangle(mask, shape) -> np.ndarray:
+    """Binary opening by a rectangle, as separable minimum and maximum filters.
+
+    Same result as ``scipy.ndimage.binary_opening(mask,
+    structure=np.ones(shape, bool))`` (outside the image counts as False),
+    but a rectangle is separable, so erosion and dilation are running
+    minima and maxima along each axis (van Herk 1992; Gil & Werman 1993)
+    with a cost independent of the rectangle size.
+
+    Parameters
+    ----------
+    mask : array_like of bool, 2-D
+    shape : tuple of int
+        Rectangle size per axis.
+
+    Returns
+    -------
+    numpy.ndarray of bool
+
+    References
+    ----------
+    .. [1] van Herk, M. (1992). A fast algorithm for local minimum and
+       maximum filters on rectangular and octagonal kernels. Pattern
+       Recognition Letters 13(7), 517-521. (from memory)
+    .. [2] Gil, J. & Werman, M. (1993). Computing 2-D min, median, and max
+       filters. IEEE PAMI 15(5), 504-507. (from memory)
+
+    Examples
+    --------
+    >>> m = np.zeros((5, 7), bool); m[1:4, 1:6] = True; m[0, 0] = True
+    >>> open_rectangle(m, (3, 3)).astype(int).sum(axis=0).tolist()
+    [0, 3, 3, 3, 3, 3, 0]
+    """
+    m = np.ascontiguousarray(mask, dtype=bool).view(np.uint8)
+    shape = tuple(int(s) for s in shape)
+    # the dilation of an opening uses the reflected rectangle: for an even
+    # side the reflection moves the centre by one (as scipy.ndimage does)
+    origin = [-1 if s % 2 == 0 else 0 for s in shape]
+    eroded = ndimage.minimum_filter(m, size=shape, mode="constant", cval=0)
+    return ndimage.maximum_filter(eroded, size=shape, mode="constant", cval=0, origin=origin).view(bool)

@@ -32,6 +32,8 @@ from dataclasses import dataclass
 import numpy as np
 from scipy import ndimage
 
+from .condition import open_rectangle
+
 __all__ = ["SlopeFace", "slope_faces"]
 
 
@@ -118,7 +120,7 @@ def slope_faces(
     out = []
     for direction, sgn in (("+", 1.0), ("-", -1.0)):
         mask = (coh >= MIN_COHERENCE) & (sgn * dip >= min_dip_deg)
-        mask = ndimage.binary_opening(mask, structure=np.ones((3, hz), bool))
+        mask = open_rectangle(mask, (3, hz))  # = ndimage.binary_opening, separable
         lab, nlab = ndimage.label(mask)
         if nlab == 0:
             continue

@@ -68,3 +68,18 @@ def test_condition_reports_dead_traces_and_keeps_input():
     assert c.dead.tolist() == [i == 2 for i in range(10)]
     assert "1 dead trace" in c.notes[0]
     np.testing.assert_array_equal(d, before)
+
+
+@pytest.mark.parametrize("shape", [(3, 10), (3, 7), (1, 4), (2, 5)])
+def test_open_rectangle_equals_scipy_binary_opening(shape):
+    # reference: scipy.ndimage.binary_opening with the full rectangle as structure
+    # (general-purpose reference library); odd and even sides, masks touching the border
+    from scipy import ndimage
+
+    from clinometry.picking.condition import open_rectangle
+
+    rng = np.random.default_rng(11)
+    for density in (0.4, 0.7, 0.95):
+        mask = rng.random((37, 61)) < density
+        expected = ndimage.binary_opening(mask, structure=np.ones(shape, bool))
+        np.testing.assert_array_equal(open_rectangle(mask, shape), expected)
