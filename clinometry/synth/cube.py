@@ -106,7 +106,8 @@ def make_cube(*, n_inlines=40, inline_spacing_m=25.0, bend_m=600.0, growth=CUBE_
         Y[i] = origin_xy_m[1] + xl_dist * np.cos(a) + off * np.cos(a + np.pi / 2)
         margins = margins_truth(depths, sides=g.sides, distance=xl_dist, x=X[i], y=Y[i],
                                 to_z=lambda d: float(vel.twt_ms(d)), family="rimmed_shelf",
-                                n_steps=g.n_steps)
+                                n_steps=g.n_steps,
+                                depth_sample_m=lambda d: dt_ms / (float(vel.twt_ms(d + 0.5)) - float(vel.twt_ms(d - 0.5))))
         for m in margins:
             for pt in [m["break"], m["toe"], m["steepest"]] + [c[k] for c in m["clinoforms"] for k in ("break", "toe")]:
                 pt["inline"] = first_inline + i
