@@ -4,7 +4,8 @@
 skips the complete ones when resuming, and runs :func:`run_task` on each of
 the others -- in this process for one worker, in a
 :class:`concurrent.futures.ProcessPoolExecutor` (``spawn`` start method, so
-the same code runs on Linux, macOS and Windows) for several, or on a
+the same code runs on Linux, macOS and Windows) plus this process for
+several, or on a
 ``dask.distributed`` cluster given by its scheduler address.  The task
 function, its options and its seed are the same on every path, so the
 per-line files are the same whichever way they were computed.
@@ -23,7 +24,10 @@ import json
 import logging
 import multiprocessing
 import os
+import queue
 import sys
+import threading
+from collections import deque
 from concurrent.futures import ProcessPoolExecutor, as_completed
 from dataclasses import dataclass, field
 from pathlib import Path
@@ -89,19 +93,77 @@ def _progress(total, quiet):
                 disable=True if quiet else None, dynamic_ncols=True)
 
 
+def _warm_up(plot):
+    """Pool initializer: import the analysis (and, with plots, matplotlib) once per worker."""
+    from .. import pipeline  # noqa: F401  (the imports are the point)
+    from .._plugins import load_plugin
+    from ..report import files  # noqa: F401
+
+    load_plugin("picker", "default")
+    load_plugin("classifier", "rules")
+    if plot:
+        from ..report import plots  # noqa: F401
+
+
 def _iter_local(tasks, options, workers):
+    """Run the tasks on ``workers`` local processes, this one included.
+
+    This process is one of the workers: a thread here takes lines from the
+    same queue as ``workers - 1`` spawned processes, so the lines start at
+    once while the other processes are still importing, and no core waits
+    for an idle coordinator.  Lines are handed out one at a time (dynamic
+    scheduling, common practice, no source), so a slow line does not hold
+    back a queue of others.
+    """
     if workers <= 1:
         for t in tasks:
             yield run_task(t, options)
         return
+    pending = deque(tasks)
+    lock = threading.Lock()
+    results = queue.Queue()
+    stop = threading.Event()
+
+    def take():
+        with lock:
+            return pending.popleft() if pending and not stop.is_set() else None
+
+    def here():
+        try:
+            while (t := take()) is not None:
+                results.put(("record", run_task(t, options)))
+        except BaseException as err:  # handed to the caller, which re-raises it
+            results.put(("error", err))
+
     ctx = multiprocessing.get_context("spawn")
-    pool = ProcessPoolExecutor(max_workers=workers, mp_context=ctx)
+    pool = ProcessPoolExecutor(max_workers=workers - 1, mp_context=ctx, initializer=_warm_up,
+                               initargs=(bool(options.plot),))
+    running = set()
+
+    def top_up():
+        while len(running) < workers - 1 and (t := take()) is not None:
+            fut = pool.submit(run_task, t, options)
+            running.add(fut)
+            fut.add_done_callback(lambda f: results.put(("future", f)))
+
+    local = threading.Thread(target=here, name="clinometry-batch-local", daemon=True)
     try:
-        futures = [pool.submit(run_task, t, options) for t in tasks]
-        for fut in as_completed(futures):
-            yield fut.result()
+        top_up()  # the worker processes start importing now
+        local.start()
+        for _ in range(len(tasks)):
+            kind, value = results.get()
+            if kind == "error":
+                raise value
+            if kind == "future":
+                running.discard(value)
+                top_up()
+                value = value.result()
+            yield value
     finally:  # on Ctrl-C or an error, do not start the lines still queued
+        stop.set()
         pool.shutdown(wait=True, cancel_futures=True)
+        if local.is_alive():
+            local.join()
 
 
 def _iter_dask(tasks, options, scheduler):
@@ -204,8 +266,8 @@ def run_batch(
     out_dir : str or os.PathLike
         Output folder (created).
     workers : int, optional
-        Local processes; default every core (``os.cpu_count()``).  1 runs in
-        this process.
+        Local processes, this one included; default every core
+        (``os.cpu_count()``).  1 runs in this process only.
     scheduler : str, optional
         Address of a running ``dask.distributed`` scheduler
         (``tcp://host:port``); then ``workers`` is ignored.
