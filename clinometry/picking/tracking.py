@@ -117,60 +117,78 @@ def min_cost_path(cost, *, max_jump: int, jump_cost: float, dip=None, dip_cost=N
     [1, 2, 2, 4]
     """
     c = np.asarray(cost, dtype=np.float32)
+    k = int(max(0, min(max_jump, c.shape[1] - 1)))
+    padded = None
+    if dip is not None and dip_cost is not None:
+        padded = _pad_dip_terms(dip, dip_cost, k)
+    return _min_cost_path(c, k, float(jump_cost), padded)
+
+
+def _pad_dip_terms(dip, dip_cost, k):
+    """Dip and dip cost as float32, padded by ``k`` zero cells on both sides of z."""
+    out = []
+    for a in (dip, dip_cost):
+        a = np.asarray(a, dtype=np.float32)
+        p = np.zeros((a.shape[0], a.shape[1] + 2 * k), dtype=np.float32)
+        p[:, k : k + a.shape[1]] = a
+        out.append(p)
+    return tuple(out)
+
+
+def _min_cost_path(c, k, jump_cost, padded):
+    """:func:`min_cost_path` on float32 costs; ``padded`` from :func:`_pad_dip_terms` or None.
+
+    The forward pass keeps only the running minimum of each cell (a
+    reduction over the window axis, vectorised over z); the step taken is
+    found again only along the optimal path when back-tracking, with the
+    same float32 operations in the same order, so ties resolve as a full
+    arg-min table would (the first, i.e. largest, step wins).
+    """
     n, m = c.shape
-    k = int(max(0, min(max_jump, m - 1)))
     w = 2 * k + 1
-    steps = np.arange(k, -k - 1, -1).astype(np.float32)
-    pen = (float(jump_cost) * np.abs(steps)).astype(np.float32)
-    use_dip = dip is not None and dip_cost is not None
+    steps = np.arange(k, -k - 1, -1).astype(np.float32)  # step z - z' for window row j
+    pen = (np.float32(jump_cost) * np.abs(steps)).astype(np.float32)
     # accumulated cost, padded with inf by k cells on both sides of z
     acc = np.full((n, m + 2 * k), np.inf, dtype=np.float32)
-    acc[0, k : k + m] = c[0]
+    acc_in = acc[:, k : k + m]
+    acc_in[0] = c[0]
     win = sliding_window_view(acc, m, axis=1)  # (n, w, m): win[i, j, z] = acc of cell z + j - k
     tot = np.empty((w, m), dtype=np.float32)
     pen_c = pen[:, None]
     best = np.empty(m, dtype=np.float32)
-    if use_dip:
-        dip = np.asarray(dip, dtype=np.float32)
-        dip_cost = np.asarray(dip_cost, dtype=np.float32)
+    minimum = np.minimum.reduce
+    block = n
+    if padded is not None:
+        pdip, pw = padded
+        win_dip = sliding_window_view(pdip, m, axis=1)  # (n, w, m)
+        win_w = sliding_window_view(pw, m, axis=1)
         # the dip term does not depend on the accumulated cost: it is made for
         # a block of traces at once, then added trace by trace
         block = max(1, min(n - 1, _BLOCK_CELLS // max(w * m, 1)))
-        pdip = np.zeros((block, m + 2 * k), dtype=np.float32)
-        pw = np.zeros((block, m + 2 * k), dtype=np.float32)
-        win_dip = sliding_window_view(pdip, m, axis=1)  # (block, w, m)
-        win_w = sliding_window_view(pw, m, axis=1)
         term = np.empty((block, w, m), dtype=np.float32)
         steps_c = steps[None, :, None]
-    for i0 in range(1, n, block if use_dip else n):
-        i1 = min(n, i0 + block) if use_dip else n
-        if use_dip:
-            b = i1 - i0
-            pdip[:b, k : k + m] = dip[i0 - 1 : i1 - 1]
-            pw[:b, k : k + m] = dip_cost[i0 - 1 : i1 - 1]
-            np.subtract(steps_c, win_dip[:b], out=term[:b])
-            np.abs(term[:b], out=term[:b])
-            np.multiply(win_w[:b], term[:b], out=term[:b])
+    for i0 in range(1, n, block):
+        i1 = min(n, i0 + block)
+        if padded is not None:
+            t = term[: i1 - i0]
+            np.subtract(steps_c, win_dip[i0 - 1 : i1 - 1], out=t)
+            np.abs(t, out=t)
+            np.multiply(win_w[i0 - 1 : i1 - 1], t, out=t)
         for i in range(i0, i1):
             np.add(win[i - 1], pen_c, out=tot)
-            if use_dip:
-                tot += term[i - i0]
-            np.min(tot, axis=0, out=best)
-            np.add(c[i], best, out=acc[i, k : k + m])
+            if padded is not None:
+                np.add(tot, term[i - i0], out=tot)
+            minimum(tot, axis=0, out=best)
+            np.add(c[i], best, out=acc_in[i])
     # back-track: re-evaluate the (2k+1) candidate steps along the path only
     path = np.empty(n, dtype=np.int64)
-    z = int(np.argmin(acc[-1, k : k + m]))
+    z = int(np.argmin(acc_in[-1]))
     path[-1] = z
     for i in range(n - 1, 0, -1):
         vals = acc[i - 1, z : z + w] + pen  # candidates z - k .. z + k
-        if use_dip:
-            a, b = max(z - k, 0), min(z + k + 1, m)
-            dd = np.zeros(w, np.float32)
-            ww = np.zeros(w, np.float32)
-            dd[a - z + k : b - z + k] = dip[i - 1, a:b]
-            ww[a - z + k : b - z + k] = dip_cost[i - 1, a:b]
-            vals += ww * np.abs(steps - dd)
-        z = z + int(np.argmin(vals)) - k
+        if padded is not None:
+            vals += pw[i - 1, z : z + w] * np.abs(steps - pdip[i - 1, z : z + w])
+        z += int(vals.argmin()) - k
         path[i - 1] = z
     return path
 
@@ -262,9 +280,12 @@ def track_paths(
     # background level of the image: reflections must stand above it to
     # count (noise at low SNR fills the whole image with envelope)
     background = float(np.median(coarse[~dead])) if (~dead).any() else 0.0
+    # one float32 cost layout and one padded copy of the dip terms for every path
+    kk = int(max(0, min(k, m - 1)))
+    padded = _pad_dip_terms(dip_c, dip_w, kk) if dip_c is not None else None
     out = []
     for rank in range(int(n_paths)):
-        cpath = min_cost_path(1.0 - coarse, max_jump=k, jump_cost=jump_cost, dip=dip_c, dip_cost=dip_w)
+        cpath = _min_cost_path(np.asarray(1.0 - coarse, dtype=np.float32), kk, float(jump_cost), padded)
         q = coarse[np.arange(n), cpath].astype(np.float64)
         q = np.clip((q - background) / max(1.0 - background, 1e-6), 0.0, 1.0)
         q[dead] = 0.0
