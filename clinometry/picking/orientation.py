@@ -44,6 +44,11 @@ logger = logging.getLogger(__name__)
 #: tensor trace below this fraction of its 99th percentile counts as no
 #: signal (common practice, no source)
 ENERGY_FLOOR = 1e-3
+#: Gaussian support in sigmas (the default truncation of
+#: :func:`scipy.ndimage.gaussian_filter`, used by the structure tensor)
+_TRUNCATE = 4.0
+#: cells per block of traces (speed and memory only, not the result)
+_BLOCK_CELLS = 1 << 19
 
 
 def reflector_orientation(image, *, sigma_z_samples: float, sigma_trace: float = 1.5):
@@ -80,19 +85,41 @@ def reflector_orientation(image, *, sigma_z_samples: float, sigma_trace: float =
     (0.5, True)
     """
     a = np.asarray(image, dtype=np.float32)
-    a_tt, a_tz, a_zz = structure_tensor(a, sigma=(float(sigma_trace), float(sigma_z_samples)), mode="reflect", order="rc")
+    n, nz = a.shape
+    sigma = (float(sigma_trace), float(sigma_z_samples))
+    dip = np.empty(a.shape, dtype=np.float32)
+    coh = np.empty(a.shape, dtype=np.float32)
+    tr = np.empty(a.shape, dtype=np.float32)
+    # the tensor is local: it is computed on blocks of traces, each with a
+    # margin as wide as the Sobel and Gaussian supports along the line, so
+    # the temporaries stay a few MB and the result is the same as for the
+    # whole image at once
+    halo = int(_TRUNCATE * float(sigma_trace) + 0.5) + 2
+    step = max(8, _BLOCK_CELLS // max(nz, 1))
+    for s0 in range(0, n, step):
+        s1 = min(n, s0 + step)
+        lo, hi = max(0, s0 - halo), min(n, s1 + halo)
+        _orientation_block(a[lo:hi], sigma, dip[s0:s1], coh[s0:s1], tr[s0:s1], s0 - lo)
+    # where there is (almost) no gradient energy the orientation is
+    # undefined: coherence 0 there, not round-off
+    floor = ENERGY_FLOOR * float(np.percentile(tr, 99)) if tr.size else 0.0
+    coh[~(tr > floor)] = 0.0
+    np.clip(coh, 0.0, 1.0, out=coh)
+    return dip, coh
+
+
+def _orientation_block(a, sigma, dip_out, coh_out, tr_out, offset):
+    """Dip, ``(l1 - l2) / (l1 + l2)`` and tensor trace of rows ``offset:`` of block ``a``."""
+    rows = slice(offset, offset + dip_out.shape[0])
+    a_tt, a_tz, a_zz = (t[rows] for t in structure_tensor(a, sigma=sigma, mode="reflect", order="rc"))
     # angle of the dominant eigenvector (the reflector normal) from the trace axis
     theta = 0.5 * np.arctan2(2.0 * a_tz, a_tt - a_zz)
     n_t = np.cos(theta)
     n_z = np.sin(theta)
-    with np.errstate(divide="ignore", invalid="ignore"):
-        dip = np.where(np.abs(n_z) > 1e-6, -n_t / n_z, 0.0)
     # the tangent satisfies n_t dt + n_z dz = 0, so dz/dt = -n_t / n_z
-    tr = a_tt + a_zz
-    disc = np.sqrt((a_tt - a_zz) ** 2 + 4.0 * a_tz**2)
-    # where there is (almost) no gradient energy the orientation is
-    # undefined: coherence 0 there, not round-off
-    floor = ENERGY_FLOOR * float(np.percentile(tr, 99)) if tr.size else 0.0
     with np.errstate(divide="ignore", invalid="ignore"):
-        coh = np.where(tr > floor, disc / tr, 0.0)
-    return dip.astype(np.float32), np.clip(coh, 0.0, 1.0).astype(np.float32)
+        dip_out[...] = np.where(np.abs(n_z) > 1e-6, -n_t / n_z, 0.0)
+    tr_out[...] = a_tt + a_zz
+    disc = np.sqrt((a_tt - a_zz) ** 2 + 4.0 * a_tz**2)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        coh_out[...] = disc / tr_out
