@@ -61,6 +61,15 @@ DEAD_RMS_FRACTION = 1e-4
 #: lateral window (traces) of the running median of trace RMS; odd
 #: (common practice, no source)
 BALANCE_WINDOW_TRACES = 31
+#: cells per block of traces for per-trace work (memory only, not the result)
+_BLOCK_CELLS = 1 << 19
+
+
+def _row_blocks(a):
+    """Slices of consecutive rows (traces) of about ``_BLOCK_CELLS`` cells."""
+    n = a.shape[0]
+    step = max(1, _BLOCK_CELLS // max(int(np.prod(a.shape[1:])), 1))
+    return [slice(s, min(n, s + step)) for s in range(0, n, step)]
 
 
 @dataclass(frozen=True)
@@ -108,11 +117,17 @@ def dead_trace_mask(data, *, known_dead=()) -> np.ndarray:
     [False, True, False]
     """
     a = np.asarray(data)
-    finite = np.isfinite(a)
-    clean = np.where(finite, a, 0.0)
-    rms = np.sqrt(np.mean(np.square(clean, dtype=np.float64), axis=1))
-    spread = np.ptp(clean, axis=1)
-    dead = ~finite.any(axis=1) | (spread == 0)
+    n = a.shape[0]
+    any_finite = np.zeros(n, dtype=bool)
+    rms = np.zeros(n, dtype=np.float64)
+    spread = np.zeros(n, dtype=a.dtype if a.dtype.kind == "f" else np.float64)
+    for rows in _row_blocks(a):  # per-trace statistics, a block at a time (memory only)
+        finite = np.isfinite(a[rows])
+        clean = np.where(finite, a[rows], 0.0)
+        any_finite[rows] = finite.any(axis=1)
+        rms[rows] = np.sqrt(np.mean(np.square(clean, dtype=np.float64), axis=1))
+        spread[rows] = np.ptp(clean, axis=1)
+    dead = ~any_finite | (spread == 0)
     live_rms = rms[~dead]
     if live_rms.size:
         dead |= rms < DEAD_RMS_FRACTION * np.median(live_rms)
@@ -182,20 +197,29 @@ def balance_traces(data, dead=None, *, window_traces: int = BALANCE_WINDOW_TRACE
     True
     """
     a = np.asarray(data, dtype=np.float32)
+    scale = _balance_scale(a, dead, window_traces)
+    if scale is None:
+        return a.copy()
+    return a / scale[:, None]  # float32 / float32: a new float32 array
+
+
+def _balance_scale(a, dead, window_traces):
+    """float32 divisor per trace of :func:`balance_traces`, or None (no live trace)."""
     n = a.shape[0]
     dead = np.zeros(n, bool) if dead is None else np.asarray(dead, dtype=bool)
-    rms = np.sqrt(np.mean(np.square(a, dtype=np.float64), axis=1))
+    rms = np.empty(n, dtype=np.float64)
+    for rows in _row_blocks(a):
+        rms[rows] = np.sqrt(np.mean(np.square(a[rows], dtype=np.float64), axis=1))
     live = ~dead & (rms > 0)
     if not live.any():
-        return a.copy()
+        return None
     log_rms = np.full(n, np.nan)
     log_rms[live] = np.log(rms[live])
     idx = np.arange(n)
     log_rms = np.interp(idx, idx[live], log_rms[live])
     w = max(1, int(window_traces) | 1)
     smooth = ndimage.median_filter(log_rms, size=max(1, min(w, n)), mode="nearest")
-    scale = np.exp(smooth - np.median(smooth))
-    return (a / scale[:, None].astype(np.float32)).astype(np.float32)
+    return np.exp(smooth - np.median(smooth)).astype(np.float32)
 
 
 def envelope(data) -> np.ndarray:
@@ -217,7 +241,12 @@ def envelope(data) -> np.ndarray:
     True
     """
     a = np.asarray(data, dtype=np.float32)
-    return np.abs(signal.hilbert(a, axis=-1)).astype(np.float32)
+    if a.ndim < 2:
+        return np.abs(signal.hilbert(a, axis=-1)).astype(np.float32)
+    out = np.empty(a.shape, dtype=np.float32)
+    for rows in _row_blocks(a):  # each trace on its own: blocks only bound the temporaries
+        out[rows] = np.abs(signal.hilbert(a[rows], axis=-1))
+    return out
 
 
 def dominant_period(data, dz: float, *, max_traces: int = 400) -> float:
@@ -291,8 +320,10 @@ def condition(data, dz: float, *, known_dead=()) -> Conditioned:
     notes = []
     if dead.any():
         notes.append(f"{int(dead.sum())} dead trace(s) masked and filled by interpolation")
-    filled = fill_dead_traces(data, dead)
-    bal = balance_traces(filled, dead)
+    bal = fill_dead_traces(data, dead)  # a new array: balanced in place below
+    scale = _balance_scale(bal, dead, BALANCE_WINDOW_TRACES)
+    if scale is not None:
+        np.divide(bal, scale[:, None], out=bal)
     period = dominant_period(bal[~dead] if (~dead).any() else bal, dz)
     env = envelope(bal)
     logger.debug("conditioned: %d dead traces, dominant period %.3g", int(dead.sum()), period)
