@@ -60,15 +60,10 @@ def _check_margin(picks, section, truth_margin, velocity, *, check_slope=True):
     "kind, options",
     [
         ("rimmed", {"slope_deg": 20.0, "relief_m": 300.0}),
-        pytest.param(
-            "rimmed",
-            {"slope_deg": 12.0, "relief_m": 200.0, "f_hz": 18.0, "dx_m": 12.5, "n_trace": 600},
-            marks=pytest.mark.xfail(
-                strict=True,
-                reason="known limitation: tuning of an 18 Hz wavelet with the onlapping fill near the toe "
-                "steepens the picked foreset locally by more than the 2-degree target",
-            ),
-        ),
+        # 18 Hz wavelet tuning with the onlapping fill near the toe: within
+        # the 2-degree target since the exported foreset is capped at the
+        # steepest gradient of the surface smoothed over 3/4 wavelength
+        ("rimmed", {"slope_deg": 12.0, "relief_m": 200.0, "f_hz": 18.0, "dx_m": 12.5, "n_trace": 600}),
         pytest.param(
             "rimmed",
             {"slope_deg": 12.0, "relief_m": 200.0, "f_hz": 30.0, "dx_m": 12.5, "n_trace": 600},
