@@ -193,6 +193,26 @@ def _min_cost_path(c, k, jump_cost, padded):
     return path
 
 
+def _pool_cells(a, factor, how, pad_mode):
+    """Reduce ``factor`` z samples to one cell (``np.pad`` to a whole cell, reshape, reduce) without a padded copy.
+
+    The whole cells are reduced through a reshaped view; only the last,
+    incomplete cell is padded (with ``pad_mode``), so the values are those
+    of padding the whole array.
+    """
+    n, nz = a.shape
+    m = -(-nz // factor)
+    full = (nz // factor) * factor
+    out = np.empty((n, m), dtype=a.dtype)
+    reduce = getattr(np, how)
+    if full:
+        reduce(a[:, :full].reshape(n, full // factor, factor), axis=2, out=out[:, : full // factor])
+    if full < nz:
+        tail = np.pad(a[:, full:], ((0, 0), (0, m * factor - nz)), mode=pad_mode)
+        out[:, -1] = reduce(tail, axis=1)
+    return out
+
+
 def _refine(env, coarse, factor):
     """Full-resolution envelope maximum inside each coarse cell, sub-sample."""
     n, nz = env.shape
@@ -260,20 +280,21 @@ def track_paths(
     amp = np.asarray(amplitude, dtype=np.float32)
     n, nz = env.shape
     scale = float(np.percentile(env, NORMALISING_PERCENTILE)) or 1.0
-    e = np.clip(env / scale, 0.0, 1.0)
+    e = env / scale
+    np.clip(e, 0.0, 1.0, out=e)
     factor = int(max(1, round(period_samples / CELLS_PER_PERIOD)))
     m = int(np.ceil(nz / factor))
-    pad = m * factor - nz
-    coarse = np.pad(e, ((0, 0), (0, pad))).reshape(n, m, factor).max(axis=2)
+    coarse = _pool_cells(e, factor, "max", "constant")
     k = int(np.ceil(max_jump_samples / factor)) + 1
     jump_cost = jump_cost_per_period * factor / max(period_samples, 1.0)
     half = max(1, int(round(0.5 * period_samples / factor)))
     dead = np.zeros(n, bool) if dead is None else np.asarray(dead, bool)
-    cells = np.arange(m)
+    offsets = np.arange(-half, half + 1)
+    row_of = np.broadcast_to(np.arange(n)[:, None], (n, offsets.size))
     dip_c = dip_w = None
     if dip is not None and coherence is not None:
         def pool(a):
-            return np.pad(np.asarray(a, np.float32), ((0, 0), (0, pad)), mode="edge").reshape(n, m, factor).mean(axis=2)
+            return _pool_cells(np.asarray(a, np.float32), factor, "mean", "edge")
 
         dip_c = np.clip(pool(dip) / factor, -k, k)
         dip_w = pool(coherence) ** 2 * dip_cost_per_period * factor / max(period_samples, 1.0)
@@ -283,9 +304,12 @@ def track_paths(
     # one float32 cost layout and one padded copy of the dip terms for every path
     kk = int(max(0, min(k, m - 1)))
     padded = _pad_dip_terms(dip_c, dip_w, kk) if dip_c is not None else None
+    del dip_c, dip_w  # only the padded copies are used from here on
+    cost = np.empty(coarse.shape, dtype=np.float32)
     out = []
     for rank in range(int(n_paths)):
-        cpath = _min_cost_path(np.asarray(1.0 - coarse, dtype=np.float32), kk, float(jump_cost), padded)
+        np.subtract(np.float32(1.0), coarse, out=cost)
+        cpath = _min_cost_path(cost, kk, float(jump_cost), padded)
         q = coarse[np.arange(n), cpath].astype(np.float64)
         q = np.clip((q - background) / max(1.0 - background, 1e-6), 0.0, 1.0)
         q[dead] = 0.0
@@ -295,7 +319,10 @@ def track_paths(
         frac = float(np.mean(sgn[strong] > 0)) if strong.any() else 0.5
         polarity = "peak" if frac >= 0.7 else "trough" if frac <= 0.3 else "unknown"
         out.append(TrackedPath(z_index=zi.astype(np.float64), quality=q, polarity=polarity, rank=rank))
-        coarse = np.where(np.abs(cells[None, :] - cpath[:, None]) <= half, 0.0, coarse)
+        # suppress the cells within half a period of the path (in place)
+        band = cpath[:, None] + offsets[None, :]
+        inside = (band >= 0) & (band < m)
+        coarse[row_of[inside], band[inside]] = 0.0
         if not coarse.any():
             break
     return out
