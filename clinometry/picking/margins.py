@@ -23,8 +23,15 @@ analysed as a profile ``depth(distance)``:
 3. **Acceptance.**  A candidate needs a landward top flatter than half its
    steepest slope (otherwise it is regional dip, not a margin), a foreset
    spanning several traces (a one-trace step is a jump between two
-   reflectors), and reflections along the foreset.  Its confidence
-   combines relief, slope contrast and reflection strength.
+   reflectors), and reflections along the foreset.  The search for break,
+   toe and top stops at the opposite flank (where the surface rises
+   basinward more steeply than half the slope).  Its confidence combines
+   relief, slope contrast and reflection strength, and is reduced when the
+   slope is a local step on a long gentler profile (mean over steepest
+   gradient between break and toe below 0.5), when a break or toe lies
+   within one smoothing length of a line end (not imaged), and when the
+   platform top or basin floor is narrower than the slope before the
+   opposite flank (a fold crest or trough, not a platform and a basin).
 
 Candidates from different surfaces that overlap laterally and face the
 same way belong to one margin: the shallowest surface over the margin is
@@ -77,6 +84,11 @@ MIN_FORESET_PICKED = 0.6
 #: confidence is reduced in proportion (a tanh profile gives about 0.9
 #: between its curvature extremes) (our choice, no source)
 MIN_SLOPE_CONCENTRATION = 0.5
+#: the platform top and the basin floor of a margin are expected to be at
+#: least this fraction of the slope width wide where an opposite flank ends
+#: them; narrower ones reduce the confidence in proportion (our choice, no
+#: source)
+MIN_FLANK_WIDTH_FRACTION = 1.0
 #: confidence factor of a margin whose break or toe lies within one
 #: smoothing length of a line end (our choice, common practice, no source)
 EDGE_CONFIDENCE_FACTOR = 0.5
@@ -239,8 +251,16 @@ def profile_candidates(
         if p < edge or p > n - 1 - edge:
             logger.debug("surface %d leg %d-%d rejected: steepest point at trace %d within %d traces of the line end", path_rank, a, b, p, edge)
             continue
-        land = np.arange(lo, p + 1) if direction == "+" else np.arange(p, hi + 1)
-        basin = np.arange(p, hi + 1) if direction == "+" else np.arange(lo, p + 1)
+        # the search for break, toe and top stops where the surface rises
+        # basinward more steeply than half the slope: that is the opposite
+        # flank (the far margin of an isolated platform, the far side of a
+        # basin), whose bends belong to another margin
+        opp = np.flatnonzero(gb < -TOP_FLATNESS_FRACTION * gb[p])
+        before, after = opp[opp < p], opp[opp > p]
+        lo_s = max(lo, int(before[-1]) + 1) if before.size else lo
+        hi_s = min(hi, int(after[0]) - 1) if after.size else hi
+        land = np.arange(lo_s, p + 1) if direction == "+" else np.arange(p, hi_s + 1)
+        basin = np.arange(p, hi_s + 1) if direction == "+" else np.arange(lo_s, p + 1)
         reasons = []
         brk = int(land[np.argmax(kappa[land])]) if land.size else None
         toe = int(basin[np.argmin(kappa[basin])]) if basin.size else None
@@ -257,7 +277,7 @@ def profile_candidates(
                 at_end.append(name_)
         # landward top: from the landward end of the leg to the break (or steepest point)
         edge = brk if brk is not None else p
-        top = np.arange(lo, edge + 1) if direction == "+" else np.arange(edge, hi + 1)
+        top = np.arange(lo_s, edge + 1) if direction == "+" else np.arange(edge, hi_s + 1)
         top = top[np.abs(top - edge) >= sig]
         top_grad = float(np.median(gb[top])) if top.size >= 3 else float("nan")
         ref_a = brk if brk is not None else (a if direction == "+" else b)
@@ -308,6 +328,20 @@ def profile_candidates(
         run = abs(x[ref_b] - x[ref_a])
         concentration = relief / max(run * gb[p], 1e-9)
         conf *= min(1.0, concentration / MIN_SLOPE_CONCENTRATION)
+        # a platform top landward of the break and a basin floor basinward of
+        # the toe, each about as wide as the slope between them: a bend
+        # followed at once by the opposite flank is a fold crest or trough
+        fs_w = max(abs(x[ref_b] - x[ref_a]), dx)
+        top_w = abs(x[ref_a] - x[lo_s if direction == "+" else hi_s])
+        floor_w = abs(x[hi_s if direction == "+" else lo_s] - x[ref_b])
+        flanked = []
+        for what, w_, cut in (
+            ("platform top", top_w, before.size if direction == "+" else after.size),
+            ("basin floor", floor_w, after.size if direction == "+" else before.size),
+        ):
+            if cut and w_ < MIN_FLANK_WIDTH_FRACTION * fs_w:
+                conf *= w_ / (MIN_FLANK_WIDTH_FRACTION * fs_w)
+                flanked.append(f"{what} only {w_:.0f} m wide before the opposite flank (slope {fs_w:.0f} m wide)")
         if brk is None or toe is None:
             conf *= 0.8
         if at_end:
@@ -336,6 +370,7 @@ def profile_candidates(
                 foreset_quality=fq,
                 confidence=float(conf),
                 mean_depth_m=float(np.mean(d_leg[min(a, b) : max(a, b) + 1])),
+                reasons=tuple(flanked),
             )
         )
     return out

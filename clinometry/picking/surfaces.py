@@ -330,6 +330,7 @@ def pick_default(
             notes.append(
                 f"margin facing {profile.direction} near traces {span[0]}-{span[1]} left out: "
                 f"confidence {conf:.2f} below {min_confidence:.2f}"
+                + "".join(f"; {r}" for r in profile.reasons)
             )
             continue
         # clinoforms: every surface of the group, oldest (deepest) first
@@ -381,6 +382,7 @@ def pick_default(
                     f"relief {profile.relief_m:.0f} m, steepest slope {profile.slope_max_deg:.1f} deg, "
                     f"landward gradient {profile.top_gradient_deg:.2f} deg, foreset reflection strength "
                     f"{profile.foreset_quality:.2f}",
+                    *profile.reasons,
                 ),
             )
         )

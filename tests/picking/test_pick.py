@@ -60,19 +60,7 @@ def test_real_lines_give_reviewable_picks(name):
 
 @pytest.mark.parametrize(
     "name",
-    [
-        "teapot-line.sgy",
-        "australia-curt-line.sgy",
-        pytest.param(
-            "northsea-line.sgy",
-            marks=pytest.mark.xfail(
-                strict=True,
-                reason="known limitation: a 25-degree syncline limb near the bottom of the record with a short "
-                "rounded crest landward passes every margin test (relief 104 m, 1.4 wavelengths; reflections "
-                "at the steepest point dip with it) and is reported with confidence 0.97",
-            ),
-        ),
-    ],
+    ["teapot-line.sgy", "australia-curt-line.sgy", "northsea-line.sgy"],
 )
 def test_real_lines_without_carbonate_margins_give_no_confident_margin(name):
     # These real lines (tests/data/README.md) show folded and faulted
