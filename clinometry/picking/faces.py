@@ -124,7 +124,7 @@ def slope_faces(
         lab, nlab = ndimage.label(mask)
         if nlab == 0:
             continue
-        sizes = ndimage.sum(mask, lab, index=np.arange(1, nlab + 1))
+        sizes = np.bincount(lab.ravel(), minlength=nlab + 1)[1:]  # pixels per label (= ndimage.sum of the mask)
         keep = np.zeros(nlab + 1, bool)
         keep[1:] = sizes >= max(4 * hz * min_traces, 1)
         mask = keep[lab]

@@ -205,8 +205,17 @@ def _pool_cells(a, factor, how, pad_mode):
     full = (nz // factor) * factor
     out = np.empty((n, m), dtype=a.dtype)
     reduce = getattr(np, how)
-    if full:
+    if full and factor >= 8:  # numpy sums 8 or more values pairwise: let it
         reduce(a[:, :full].reshape(n, full // factor, factor), axis=2, out=out[:, : full // factor])
+    elif full:
+        # cell by cell over the `factor` samples, in the order np.max / np.mean
+        # reduce a short axis (first, then each next one), so the values are equal
+        head = out[:, : full // factor]
+        np.copyto(head, a[:, 0:full:factor])
+        for j in range(1, factor):
+            (np.maximum if how == "max" else np.add)(head, a[:, j:full:factor], out=head)
+        if how == "mean":
+            np.true_divide(head, factor, out=head, casting="unsafe")
     if full < nz:
         tail = np.pad(a[:, full:], ((0, 0), (0, m * factor - nz)), mode=pad_mode)
         out[:, -1] = reduce(tail, axis=1)

@@ -50,3 +50,16 @@ def test_track_paths_finds_two_flat_reflectors_strongest_first():
     paths = track_paths(env, env, period_samples=8.0, max_jump_samples=4.0, n_paths=2)
     assert [round(float(np.median(p.z_index))) for p in paths] == [60, 140]
     assert paths[0].quality.min() > 0.9
+
+
+@pytest.mark.parametrize("factor", [1, 2, 3, 8, 9])
+def test_cell_pooling_equals_padding_the_whole_array(factor):
+    # reference: numpy's own np.pad + reshape + max/mean (general-purpose library)
+    from clinometry.picking.tracking import _pool_cells
+
+    rng = np.random.default_rng(5)
+    a = (rng.random((7, 53)) * 9.0).astype(np.float32)
+    m = -(-53 // factor)
+    pad = ((0, 0), (0, m * factor - 53))
+    np.testing.assert_array_equal(_pool_cells(a, factor, "max", "constant"), np.pad(a, pad).reshape(7, m, factor).max(axis=2))
+    np.testing.assert_array_equal(_pool_cells(a, factor, "mean", "edge"), np.pad(a, pad, mode="edge").reshape(7, m, factor).mean(axis=2))
