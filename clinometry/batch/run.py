@@ -105,15 +105,22 @@ def _warm_up(plot):
         from ..report import plots  # noqa: F401
 
 
+def _ready():
+    """A no-op job: its result means a worker has started and warmed up."""
+    return os.getpid()
+
+
 def _iter_local(tasks, options, workers):
     """Run the tasks on ``workers`` local processes, this one included.
 
     This process is one of the workers: a thread here takes lines from the
-    same queue as ``workers - 1`` spawned processes, so the lines start at
-    once while the other processes are still importing, and no core waits
-    for an idle coordinator.  Lines are handed out one at a time (dynamic
-    scheduling, common practice, no source), so a slow line does not hold
-    back a queue of others.
+    same queue that feeds ``workers - 1`` spawned processes.  A spawned
+    process is given lines only once it has started and imported the
+    analysis (a no-op job run after its initializer comes back), so no line
+    waits behind a start-up while this process could have run it, and a
+    batch of one or two lines is not slower than on one worker.  Lines are
+    handed out one at a time (dynamic scheduling, common practice, no
+    source), so a slow line does not hold back a queue of others.
     """
     if workers <= 1:
         for t in tasks:
@@ -139,29 +146,44 @@ def _iter_local(tasks, options, workers):
     pool = ProcessPoolExecutor(max_workers=workers - 1, mp_context=ctx, initializer=_warm_up,
                                initargs=(bool(options.plot),))
     running = set()
+    n_ready = 0
 
     def top_up():
-        while len(running) < workers - 1 and (t := take()) is not None:
+        while len(running) < n_ready and (t := take()) is not None:
             fut = pool.submit(run_task, t, options)
             running.add(fut)
             fut.add_done_callback(lambda f: results.put(("future", f)))
 
     local = threading.Thread(target=here, name="clinometry-batch-local", daemon=True)
+    clean = False
     try:
-        top_up()  # the worker processes start importing now
+        for _ in range(workers - 1):  # the worker processes start importing now
+            pool.submit(_ready).add_done_callback(lambda f: results.put(("ready", f)))
         local.start()
-        for _ in range(len(tasks)):
+        done = 0
+        while done < len(tasks):
             kind, value = results.get()
             if kind == "error":
                 raise value
+            if kind == "ready":
+                if value.exception() is None:
+                    n_ready += 1
+                    top_up()
+                else:  # the lines go on in this process
+                    logger.warning("a worker process did not start (%s); going on with fewer",
+                                   value.exception())
+                continue
             if kind == "future":
                 running.discard(value)
                 top_up()
                 value = value.result()
+            done += 1
             yield value
+        clean = True
     finally:  # on Ctrl-C or an error, do not start the lines still queued
         stop.set()
-        pool.shutdown(wait=True, cancel_futures=True)
+        # after a clean run only start-up jobs can be left: do not wait for them
+        pool.shutdown(wait=not clean, cancel_futures=True)
         if local.is_alive():
             local.join()
 
