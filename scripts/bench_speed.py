@@ -8,8 +8,11 @@ IBM-float and IEEE-float SEG-Y, this script measures in one process
     Monte-Carlo uncertainty off and once with the default uncertainty on,
 
 and prints the ratio (b)/(a), the time per trace at each size (scaling), and
-the peak resident memory of a fresh process that runs (b) once.  It also
-times a batch of 16 lines with ``--workers 1`` and ``--workers 2``.
+the peak resident memory of a fresh process that runs (b) once (with the
+memory of the imports alone beside it).  It also times a batch of 16 lines
+with ``--workers 1`` and ``--workers 2`` (alternating), and prints the load
+average of the machine, since other processes on the same cores slow every
+measurement.
 
 Medians of several runs are quoted.  The lines are layered sections with a
 prograding sigmoidal clinoform wedge, convolved with a 25 Hz Ricker wavelet:
@@ -164,6 +167,7 @@ def main(argv=None):
                 an = [_time_analyze(path, False) for _ in range(args.repeat)]
                 anu = [_time_analyze(path, True) for _ in range(args.repeat)]
                 mem = _peak_memory(path)
+                load = os.getloadavg()[0]
                 r = statistics.median(reads)
                 a = statistics.median(t for t, _ in an)
                 au = statistics.median(t for t, _ in anu)
@@ -172,7 +176,7 @@ def main(argv=None):
                     "format": fmt, "traces": n, "read_s": r, "analyze_s": a, "analyze_unc_s": au,
                     "ratio": a / r, "ratio_unc": au / r, "ms_per_trace": 1000 * a / n,
                     "margins": an[0][1], "peak_mb": mem["peak_mb"], "base_mb": mem["base_mb"],
-                    "float32_mb": f32_mb, "mem_budget_mb": 4 * f32_mb + 300,
+                    "float32_mb": f32_mb, "mem_budget_mb": 4 * f32_mb + 300, "load_1min": load,
                 })
                 print(json.dumps(rows[-1]), file=sys.stderr, flush=True)
         batch = None
@@ -182,25 +186,31 @@ def main(argv=None):
                 p = tmp / f"batch_{i:02d}.sgy"
                 make_line(p, args.batch_traces, args.samples, "ieee", seed=i)
                 paths.append(p)
-            t1 = statistics.median(_batch_time(paths, 1, tmp / f"b1_{k}") for k in range(args.repeat))
-            t2 = statistics.median(_batch_time(paths, 2, tmp / f"b2_{k}") for k in range(args.repeat))
-            batch = (t1, t2)
+            # alternate the two settings so a change of machine load hits both alike
+            t1s, t2s = [], []
+            for k in range(args.repeat):
+                t1s.append(_batch_time(paths, 1, tmp / f"b1_{k}"))
+                t2s.append(_batch_time(paths, 2, tmp / f"b2_{k}"))
+            batch = (statistics.median(t1s), statistics.median(t2s), os.getloadavg()[0])
 
     print(f"\nclinometry {__import__('clinometry').__version__}; {os.cpu_count()} cores; "
           f"{args.samples} samples per trace; medians of {args.repeat} run(s)\n")
-    print("| format | traces | segyio read (s) | analyze (s) | ratio | analyze + uncertainty (s) | ratio | ms/trace | scaling vs smallest | peak RSS (MB) | budget 4x float32 + 300 (MB) |")
-    print("|---|---|---|---|---|---|---|---|---|---|---|")
+    print("| format | traces | segyio read (s) | analyze (s) | ratio | analyze + uncertainty (s) | ratio | ms/trace | scaling vs smallest | peak RSS (MB) | RSS after imports (MB) | budget 4x float32 + 300 (MB) | load (1 min) |")
+    print("|---|---|---|---|---|---|---|---|---|---|---|---|---|")
     for fmt in args.formats:
         sub = [r for r in rows if r["format"] == fmt]
         base = sub[0]["ms_per_trace"]
         for r in sub:
             print(f"| {fmt} | {r['traces']} | {r['read_s']:.3f} | {r['analyze_s']:.2f} | {r['ratio']:.1f} | "
                   f"{r['analyze_unc_s']:.2f} | {r['ratio_unc']:.1f} | {r['ms_per_trace']:.3f} | "
-                  f"{r['ms_per_trace'] / base:.2f} | {r['peak_mb']:.0f} | {r['mem_budget_mb']:.0f} |")
+                  f"{r['ms_per_trace'] / base:.2f} | {r['peak_mb']:.0f} | {r['base_mb']:.0f} | {r['mem_budget_mb']:.0f} | "
+                  f"{r['load_1min']:.1f} |")
     if batch:
-        t1, t2 = batch
-        print(f"\nbatch of {args.batch_lines} lines x {args.batch_traces} traces: --workers 1 {t1:.1f} s, "
-              f"--workers 2 {t2:.1f} s, speed-up {t1 / t2:.2f}")
+        t1, t2, load = batch
+        print(f"\nbatch of {args.batch_lines} lines x {args.batch_traces} traces (whole CLI runs, --no-plot): "
+              f"--workers 1 {t1:.1f} s, --workers 2 {t2:.1f} s, speed-up {t1 / t2:.2f} (load average {load:.1f})")
+    print("\nload: the 1-minute load average of the machine after each row; above about 0.5 on 2 cores, "
+          "other processes shared the cores and the times are upper bounds")
 
 
 if __name__ == "__main__":
