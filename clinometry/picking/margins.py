@@ -255,8 +255,11 @@ def profile_candidates(
         # basinward more steeply than half the slope: that is the opposite
         # flank (the far margin of an isolated platform, the far side of a
         # basin), whose bends belong to another margin
+        # (only on a side where the leg ends at a significant extremum, not
+        # at the line end: a short rise in noise is not a flank)
         opp = np.flatnonzero(gb < -TOP_FLATNESS_FRACTION * gb[p])
-        before, after = opp[opp < p], opp[opp > p]
+        before = opp[opp < p] if a > 0 else opp[:0]
+        after = opp[opp > p] if b < n - 1 else opp[:0]
         lo_s = max(lo, int(before[-1]) + 1) if before.size else lo
         hi_s = min(hi, int(after[0]) - 1) if after.size else hi
         land = np.arange(lo_s, p + 1) if direction == "+" else np.arange(p, hi_s + 1)
