@@ -113,13 +113,23 @@ def _time_analyze(path, uncertainty):
 
 
 _PEAK_SNIPPET = r"""
-import json, resource, sys, warnings
+import json, sys, warnings
 warnings.simplefilter("ignore")
+
+def hwm_mb():
+    # peak resident set of this process image (VmHWM, reset by exec; unlike
+    # ru_maxrss, which keeps the value of the process that forked us)
+    with open("/proc/self/status") as f:
+        for line in f:
+            if line.startswith("VmHWM:"):
+                return int(line.split()[1]) / 1024
+    import resource
+    return resource.getrusage(resource.RUSAGE_SELF).ru_maxrss / 1024
+
 import clinometry
-base = resource.getrusage(resource.RUSAGE_SELF).ru_maxrss
+base = hwm_mb()
 clinometry.analyze(sys.argv[1], velocity=2500.0, uncertainty=True)
-peak = resource.getrusage(resource.RUSAGE_SELF).ru_maxrss
-print(json.dumps({"base_mb": base / 1024, "peak_mb": peak / 1024}))
+print(json.dumps({"base_mb": base, "peak_mb": hwm_mb()}))
 """
 
 

@@ -135,21 +135,25 @@ def _pad_dip_terms(dip, dip_cost, k):
     return tuple(out)
 
 
-def _min_cost_path(c, k, jump_cost, padded):
+def _min_cost_path(c, k, jump_cost, padded, acc=None):
     """:func:`min_cost_path` on float32 costs; ``padded`` from :func:`_pad_dip_terms` or None.
 
     The forward pass keeps only the running minimum of each cell (a
     reduction over the window axis, vectorised over z); the step taken is
     found again only along the optimal path when back-tracking, with the
     same float32 operations in the same order, so ties resolve as a full
-    arg-min table would (the first, i.e. largest, step wins).
+    arg-min table would (the first, i.e. largest, step wins).  ``acc``, a
+    float32 array of shape (n, m + 2k), may be given as workspace (reused
+    between calls: no fresh pages to fault in for every path).
     """
     n, m = c.shape
     w = 2 * k + 1
     steps = np.arange(k, -k - 1, -1).astype(np.float32)  # step z - z' for window row j
     pen = (np.float32(jump_cost) * np.abs(steps)).astype(np.float32)
     # accumulated cost, padded with inf by k cells on both sides of z
-    acc = np.full((n, m + 2 * k), np.inf, dtype=np.float32)
+    if acc is None or acc.shape != (n, m + 2 * k) or acc.dtype != np.float32:
+        acc = np.empty((n, m + 2 * k), dtype=np.float32)
+    acc.fill(np.inf)
     acc_in = acc[:, k : k + m]
     acc_in[0] = c[0]
     win = sliding_window_view(acc, m, axis=1)  # (n, w, m): win[i, j, z] = acc of cell z + j - k
@@ -315,10 +319,11 @@ def track_paths(
     padded = _pad_dip_terms(dip_c, dip_w, kk) if dip_c is not None else None
     del dip_c, dip_w  # only the padded copies are used from here on
     cost = np.empty(coarse.shape, dtype=np.float32)
+    workspace = np.empty((n, m + 2 * kk), dtype=np.float32)
     out = []
     for rank in range(int(n_paths)):
         np.subtract(np.float32(1.0), coarse, out=cost)
-        cpath = _min_cost_path(cost, kk, float(jump_cost), padded)
+        cpath = _min_cost_path(cost, kk, float(jump_cost), padded, workspace)
         q = coarse[np.arange(n), cpath].astype(np.float64)
         q = np.clip((q - background) / max(1.0 - background, 1e-6), 0.0, 1.0)
         q[dead] = 0.0
