@@ -236,15 +236,10 @@ def _got_vs_truth(name, key):
 # Measured on the bundled lines with the picker of this commit (direction, got family, got
 # slope_max_deg, truth family, truth slope_max_deg); the mismatches come from picked profiles
 # steeper than the truth (picked break or toe off the true rollover), tracked in issue 6.
-_FAMILY_XFAIL = {
-    "isolated_platform": "[('-', 'steep_margin', 31.5, 'rimmed_shelf', 25.0), ('+', 'steep_margin', 32.9, 'rimmed_shelf', 25.0)]",
-    "noisy_shelf": "[('+', 'steep_margin', 33.4, 'rimmed_shelf', 20.0)]",
-    "rimmed_shelf": "[('+', 'steep_margin', 45.4, 'rimmed_shelf', 20.0)]",
-}
+_FAMILY_XFAIL = {}
 # (direction, got class, got angle, got flat band, truth class, truth angle): the picker's
 # clinoform breaks are few, repeated or off their clinoforms, tracked in issue 6
 _TRAJECTORY_XFAIL = {
-    "falling_shelf": "[('+', 'flat', -3.96, 4.61, 'descending', -3.69)]",
     "gentle_ramp": "[('+', None, None, None, 'ascending', 0.84)]",
     "isolated_platform": "[('-', 'flat', -1.29, 1.51, 'ascending', 7.01), ('+', 'flat', -3.74, 5.31, 'ascending', 7.01)]",
     "level_shelf": "[('-', 'ascending', 90.0, 0.1, 'flat', 0.02)]",

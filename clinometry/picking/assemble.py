@@ -28,6 +28,7 @@ from .tracking import TrackedPath
 __all__ = [
     "limit_slope",
     "choose_profile",
+    "dip_agreement",
     "cuts_layering",
     "steepest_unconfirmed",
     "drop_buried",
@@ -111,11 +112,23 @@ def face_profile(face, paths, e_q, coh, period_samples, *, rank):
         # join where the face meets the surface (within half a period),
         # as far into the face as possible, so the profile has no step
         gap = np.abs(best.z_index[join_zone] - z[join_zone])
-        meet = np.flatnonzero(gap <= 0.5 * period_samples)
-        if meet.size:
-            j = int(join_zone[meet[-1]] if before else join_zone[meet[0]])
+        agree = gap <= 0.5 * period_samples
+        end_k = 0 if before else agree.size - 1
+        if agree[end_k]:
+            # the surface agrees with the face up to the face end: join at
+            # the inner end of that run of agreement (a surface that only
+            # crosses the face further in, jumping between reflectors, is
+            # not followed there)
+            off = np.flatnonzero(~agree)
+            if before:
+                j = int(join_zone[off[0] - 1]) if off.size else int(join_zone[-1])
+            else:
+                j = int(join_zone[off[-1] + 1]) if off.size else int(join_zone[0])
         else:
-            j = int(join_zone[np.argmin(gap)])
+            # no agreement at the end (the surface is within a period there):
+            # join at the face end; a surface crossing the face further in
+            # is a jump across the foreset, not its continuation
+            j = end
         side = rows < j if before else rows > j
         z[side] = best.z_index[side]
         q[side] = best.quality[side]
@@ -212,21 +225,114 @@ def cuts_layering(cand, z_index, dip, coh, period_samples):
     return ""
 
 
-def choose_profile(g, core, paths, depth_list, face_ranks, period_samples):
-    """The outer surface of a margin group: the shallowest strong candidate
-    (youngest clinoform); a tracked reflection near a face is preferred."""
-    best_q = max(m.foreset_quality for m in g)
-    strong = [m for m in g if m.foreset_quality >= 0.6 * best_q]
+#: a candidate is a credible outer profile when its foreset reflection
+#: strength is at least this fraction of the group's strongest and its
+#: confidence at least this fraction of the group's most confident
+#: (common practice, no source)
+PROFILE_STRENGTH_FRACTION = 0.6
+PROFILE_CONFIDENCE_FRACTION = 0.5
+#: a surface agrees with the reflections along its foreset when the median
+#: difference between its own slope and their structure-tensor dip, and the
+#: excess of its steepest slope over their dip there, are each at most this
+#: fraction of the reflection dip plus DIP_AGREEMENT_FLOOR_DEG
+#: (our choice, no source)
+DIP_AGREEMENT_FRACTION = 0.25
+DIP_AGREEMENT_FLOOR_DEG = 2.0
+
+
+def dip_agreement(cand, depth_m, distance_m, z_index, dip_deg, coh, period_samples, smoothing_traces, peak_smoothing_traces=None):
+    """How a surface's slope compares with the dip of the reflections along its foreset.
+
+    The slope is that of the depth profile smoothed over ``smoothing_traces``
+    (a Gaussian sigma); the reflection dip on each trace is the median
+    coherent true dip (structure tensor, Fehmers & Höcker 2003, from
+    memory) from the pick to half a period below it.  A surface that jumps
+    from one reflector to a deeper one is much steeper than the reflections
+    it crosses; a surface that follows a foreset reflection dips with it
+    (foresets, Mitchum, Vail & Sangree 1977, from memory).
+
+    Returns
+    -------
+    tuple of float, degrees
+        ``(disagreement, excess, reflection_dip, steepest_reflection_dip)``:
+        median absolute difference between surface slope and reflection dip
+        over the foreset, steepest slope of the candidate minus the median
+        reflection dip within ``smoothing_traces`` of its steepest point,
+        the median reflection dip over the foreset, and the largest
+        reflection dip along the foreset smoothed over
+        ``peak_smoothing_traces`` (default ``smoothing_traces``);
+        all NaN when fewer than three foreset traces have coherent
+        reflections.
+    """
+    nan = (float("nan"),) * 4
+    lo, hi = foreset_span(cand)
+    tr = np.arange(lo, hi + 1)
+    if tr.size < 3:
+        return nan
+    # where the surface steps by half a period or more per trace the
+    # foreset is spatially aliased and the tensor's dip is unreliable
+    aliased = np.percentile(np.abs(np.gradient(np.asarray(z_index, float))[tr]), 75) >= 0.5 * period_samples
+    nz = dip_deg.shape[1]
+    sgn = 1.0 if cand.direction == "+" else -1.0
+    sm = ndimage.gaussian_filter1d(np.asarray(depth_m, float), max(0.5, smoothing_traces), mode="nearest")
+    surf = np.degrees(np.arctan(sgn * np.gradient(sm, distance_m)))[tr]
+    offs = np.arange(0, max(1, int(round(period_samples / 2))) + 1)
+    pix = np.round(z_index[tr])[:, None] + offs[None, :]
+    inside = (pix >= 0) & (pix <= nz - 1)
+    pix = np.clip(pix, 0, nz - 1).astype(int)
+    ok = (coh[tr[:, None], pix] >= FACE_COHERENCE) & inside
+    have = ok.sum(axis=1) > 0
+    if have.sum() < 3:
+        return nan
+    d = np.where(ok, sgn * dip_deg[tr[:, None], pix], np.nan)[have]
+    refl = np.nanmedian(d, axis=1)
+    near = np.abs(tr[have] - cand.steepest) <= max(1.0, smoothing_traces)
+    excess = abs(cand.slope_max_deg) - float(np.median(refl[near])) if near.any() else 0.0
+    peak_sig = max(0.5, smoothing_traces if peak_smoothing_traces is None else peak_smoothing_traces)
+    steepest = float("nan") if aliased else float(np.max(ndimage.gaussian_filter1d(refl, peak_sig, mode="nearest")))
+    return float(np.median(np.abs(surf[have] - refl))), float(excess), float(np.median(refl)), steepest
+
+
+def _agrees(a):
+    """True when the surface dips with its reflections."""
+    dis, excess, refl, _ = a
+    if not np.isfinite(dis):
+        return False
+    tol = DIP_AGREEMENT_FRACTION * abs(refl) + DIP_AGREEMENT_FLOOR_DEG
+    return dis <= tol and excess <= tol
+
+
+def choose_profile(g, core, paths, depth_list, face_ranks, period_samples, *, agreement=None):
+    """The outer surface of a margin group: the shallowest credible
+    candidate (youngest clinoform).
+
+    Credible: strong and confident compared with the group's best and, when
+    ``agreement`` (candidate -> :func:`dip_agreement` tuple) is given,
+    dipping with the reflections along its foreset if any candidate of the
+    group does.  When the outer one is a slope face, a tracked reflection
+    within one period of it along its foreset (the same surface, picked
+    twice) is preferred: it follows the reflection's envelope maximum.
+    """
+    pool = g
+    if agreement is not None:
+        pool = [m for m in g if _agrees(agreement(m))] or g
+    best_q = max(m.foreset_quality for m in pool)
+    best_c = max(m.confidence for m in pool)
+    strong = [
+        m
+        for m in pool
+        if m.foreset_quality >= PROFILE_STRENGTH_FRACTION * best_q and m.confidence >= PROFILE_CONFIDENCE_FRACTION * best_c
+    ] or [m for m in pool if m.confidence >= PROFILE_CONFIDENCE_FRACTION * best_c]
     profile = min(strong, key=lambda m: float(np.mean(depth_list[m.path_rank][core])))
+    lo_f, hi_f = foreset_span(profile)
+    fz = paths[profile.path_rank].z_index[lo_f : hi_f + 1]
+    same = [
+        m
+        for m in strong
+        if np.mean(np.abs(paths[m.path_rank].z_index[lo_f : hi_f + 1] - fz)) <= period_samples
+    ]
     if profile.path_rank in face_ranks:
-        lo_f, hi_f = foreset_span(profile)
-        fz = paths[profile.path_rank].z_index[lo_f : hi_f + 1]
-        near = [
-            m
-            for m in strong
-            if m.path_rank not in face_ranks
-            and np.mean(np.abs(paths[m.path_rank].z_index[lo_f : hi_f + 1] - fz)) <= period_samples
-        ]
+        near = [m for m in same if m.path_rank not in face_ranks]
         if near:
             profile = max(near, key=lambda m: m.foreset_quality)
     return profile

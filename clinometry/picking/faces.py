@@ -44,7 +44,12 @@ def _follow_face(env, dip, coh, top, half, max_jump, period):
     n, nz = env.shape
     smooth_top = ndimage.gaussian_filter1d(ndimage.median_filter(top.astype(float), size=5, mode="nearest"), 1.0)
     zz = np.arange(nz)[None, :]
-    band = np.abs(zz - smooth_top[:, None]) <= half
+    # the structure tensor's window spreads the dipping region above the
+    # reflection that makes it by up to about half a period, so the
+    # reflection itself lies between a quarter period above the mask top
+    # and one period below it
+    off = zz - smooth_top[:, None]
+    band = (off >= -max(1, half // 2)) & (off <= 2 * half)
     scale = float(np.percentile(env[band], 99)) if band.any() else 1.0
     cost = np.where(band, 1.0 - np.clip(env / (scale or 1.0), 0, 1), 10.0)
     k = int(np.ceil(max_jump)) + 1
@@ -55,6 +60,15 @@ logger = logging.getLogger(__name__)
 
 #: coherence above which a dip is trusted (common practice, no source)
 MIN_COHERENCE = 0.5
+#: a face pixel must lie where the envelope, smoothed with a Gaussian of
+#: STRENGTH_SIGMA_TRACES traces and STRENGTH_SIGMA_PERIODS dominant periods,
+#: reaches this multiple of its median over the section: a foreset is made
+#: of reflections, whereas chaotic or transparent facies (a platform
+#: interior, noise) give coherent-looking dips at a weak envelope
+#: (common practice, no source)
+STRENGTH_FRACTION_OF_MEDIAN = 1.0
+STRENGTH_SIGMA_TRACES = 1.5
+STRENGTH_SIGMA_PERIODS = 0.5
 
 
 @dataclass(frozen=True)
@@ -117,9 +131,13 @@ def slope_faces(
     env = np.asarray(envelope, dtype=np.float32)
     n, nz = dip.shape
     hz = max(1, int(round(period_samples / 2)))
+    # reflection strength judged over about a period and a few traces, so
+    # the gaps between wavelet lobes of one reflection do not count as weak
+    env_s = ndimage.gaussian_filter(env, (STRENGTH_SIGMA_TRACES, max(1.0, STRENGTH_SIGMA_PERIODS * period_samples)))
+    strong = env_s >= STRENGTH_FRACTION_OF_MEDIAN * float(np.median(env_s))
     out = []
     for direction, sgn in (("+", 1.0), ("-", -1.0)):
-        mask = (coh >= MIN_COHERENCE) & (sgn * dip >= min_dip_deg)
+        mask = (coh >= MIN_COHERENCE) & (sgn * dip >= min_dip_deg) & strong
         mask = open_rectangle(mask, (3, hz))  # = ndimage.binary_opening, separable
         lab, nlab = ndimage.label(mask)
         if nlab == 0:

@@ -39,6 +39,7 @@ from .orientation import reflector_orientation
 from .assemble import (
     FACE_MIN_DIP_DEG,
     choose_profile,
+    dip_agreement,
     cuts_layering,
     drop_buried,
     drop_opposed,
@@ -144,6 +145,22 @@ def _steepest_gradient(depth_m, distance_m, cand, sigma_m):
     lo, hi = sorted((int(cand.shelf_break), int(cand.toe)))
     sgn = 1.0 if cand.direction == "+" else -1.0
     return float(max(np.max(sgn * g[lo : hi + 1]), 1e-6))
+
+
+def _agreement(paths, depth_list, dist, dip_deg, coh, period_samples, smoothing_traces, peak_smoothing_traces):
+    """Candidate -> :func:`~clinometry.picking.assemble.dip_agreement` of its surface, cached."""
+    cache = {}
+
+    def agreement(m):
+        key = (m.path_rank, m.leg)
+        if key not in cache:
+            cache[key] = dip_agreement(
+                m, depth_list[m.path_rank], dist, paths[m.path_rank].z_index, dip_deg, coh, period_samples, smoothing_traces,
+                peak_smoothing_traces=peak_smoothing_traces,
+            )
+        return cache[key]
+
+    return agreement
 
 
 def pick_default(
@@ -309,11 +326,17 @@ def pick_default(
     used_ranks = {}
     next_id = 0
     chosen = []
+    agreements = {}
     for g in groups:
         span = (min(min(m.leg) for m in g), max(max(m.leg) for m in g))
         steep = [m.steepest for m in g]
         core = slice(min(steep), max(steep) + 1)
-        chosen.append((g, span, core, choose_profile(g, core, paths, depth_list, face_ranks, period_samples)))
+        agreement = _agreement(
+            paths, depth_list, dist, dip_deg, coh, period_samples, smoothing / dx_m, CAP_SMOOTHING_WAVELENGTHS * wavelength / dx_m
+        )
+        prof = choose_profile(g, core, paths, depth_list, face_ranks, period_samples, agreement=agreement)
+        agreements[id(prof)] = agreement
+        chosen.append((g, span, core, prof))
     chosen = drop_buried(chosen, paths, period_samples, notes)
     for g, span, core, profile in sorted(chosen, key=lambda c: c[1][0]):
         if profile.shelf_break is not None and profile.toe is not None:
@@ -324,6 +347,10 @@ def pick_default(
                 per_m = 2000.0 / np.broadcast_to(np.atleast_1d(velocity_at(section, velocity, zs)), zs.shape)
             # local gradients limited to a multiple of the wavelength-scale steepest one
             g_lim = _steepest_gradient(depth_list[profile.path_rank], dist, profile, CAP_SMOOTHING_WAVELENGTHS * wavelength)
+            # nor steeper than the reflections along the foreset
+            refl_max = agreements[id(profile)](profile)[3]
+            if np.isfinite(refl_max) and 0.0 < refl_max < 90.0:
+                g_lim = min(g_lim, np.tan(np.radians(refl_max)))
             zs_list[profile.path_rank] = limit_slope(zs, dist, profile.shelf_break, profile.toe, SLOPE_LIMIT_FACTOR * g_lim * per_m)
         conf = profile.confidence
         if conf < min_confidence:

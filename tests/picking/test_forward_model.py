@@ -41,14 +41,7 @@ def _check(section, truth_margin, picks, metrics, *, check_slope=True):
 @pytest.mark.parametrize(
     "scenario",
     [
-        pytest.param(
-            "rimmed_shelf",
-            marks=pytest.mark.xfail(
-                strict=True,
-                reason="known limitation: the picked foreset steps where the basin fill onlaps it; "
-                "metrics measure more than 22 deg over their short base for the true 20 deg",
-            ),
-        ),
+        "rimmed_shelf",
         "falling_shelf",
         "level_shelf",
         pytest.param(

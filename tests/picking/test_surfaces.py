@@ -64,15 +64,7 @@ def _check_margin(picks, section, truth_margin, velocity, *, check_slope=True):
         # the 2-degree target since the exported foreset is capped at the
         # steepest gradient of the surface smoothed over 3/4 wavelength
         ("rimmed", {"slope_deg": 12.0, "relief_m": 200.0, "f_hz": 18.0, "dx_m": 12.5, "n_trace": 600}),
-        pytest.param(
-            "rimmed",
-            {"slope_deg": 12.0, "relief_m": 200.0, "f_hz": 30.0, "dx_m": 12.5, "n_trace": 600},
-            marks=pytest.mark.xfail(
-                strict=True,
-                reason="known limitation: the picked foreset is steeper than 12 deg by more than 2 deg (tuning with "
-                "the onlapping fill), and at SNR 3 a spurious opposite-facing margin inside the older clinoforms",
-            ),
-        ),
+        ("rimmed", {"slope_deg": 12.0, "relief_m": 200.0, "f_hz": 30.0, "dx_m": 12.5, "n_trace": 600}),
         ("mirrored", {"slope_deg": 25.0, "relief_m": 350.0, "f_hz": 40.0, "v_m_s": 2800.0}),
     ],
 )
