@@ -1,0 +1,109 @@
+"""Choosing the outer margin profile by the dip of its reflections, and slope faces.
+
+Geometry only: a straight line z = x tan(a) has slope a (common practice,
+no source); a surface following a foreset reflection dips with it, a
+surface jumping from one reflector to a deeper one is steeper than the
+reflections it crosses (foresets, Mitchum, Vail & Sangree 1977, from
+memory).
+"""
+
+import numpy as np
+import pytest
+
+from clinometry.picking.assemble import choose_profile, dip_agreement
+from clinometry.picking.faces import slope_faces
+from clinometry.picking.margins import MarginCandidate
+from clinometry.picking.tracking import TrackedPath
+
+DX_M = 10.0  # trace spacing
+DZ_M = 2.0  # depth sample interval (a depth section: z index * DZ_M = depth)
+N, NZ = 120, 200
+PERIOD = 10.0  # samples
+
+
+def _cand(rank, *, brk, toe, steepest, slope_deg, quality=0.5, confidence=1.0):
+    return MarginCandidate(
+        path_rank=rank, direction="+", leg=(0, N - 1), steepest=steepest, shelf_break=brk, toe=toe,
+        break_reason="", toe_reason="", relief_m=100.0, slope_max_deg=slope_deg, top_gradient_deg=0.0,
+        foreset_quality=quality, confidence=confidence, mean_depth_m=0.0,
+    )
+
+
+def _dipping_field(dip_deg):
+    # coherent reflections dipping dip_deg basinward (+) everywhere
+    return np.full((N, NZ), dip_deg, np.float32), np.ones((N, NZ), np.float32)
+
+
+def _ramp_surface(x0, x1, z0_m, slope_deg):
+    x = np.arange(N) * DX_M
+    depth = z0_m + np.clip(x - x0, 0, x1 - x0) * np.tan(np.radians(slope_deg))
+    return x, depth
+
+
+def test_surface_following_its_reflections_agrees_and_a_jump_does_not():
+    dip, coh = _dipping_field(20.0)
+    # along a 20-degree foreset the surface slope equals the reflection dip (tan 20 deg, geometry)
+    x, d_follow = _ramp_surface(300.0, 800.0, 40.0, 20.0)
+    c = _cand(0, brk=35, toe=75, steepest=55, slope_deg=20.0)
+    dis, excess, refl, steepest = dip_agreement(c, d_follow, x, d_follow / DZ_M, dip, coh, PERIOD, 3.0)
+    assert refl == pytest.approx(20.0)
+    assert steepest == pytest.approx(20.0)
+    assert dis < 2.0 and abs(excess) < 1e-6
+    # a 60-degree step across the same 20-degree reflections
+    x, d_jump = _ramp_surface(500.0, 560.0, 40.0, 60.0)
+    j = _cand(1, brk=48, toe=58, steepest=53, slope_deg=60.0)
+    dis_j, excess_j, refl_j, _ = dip_agreement(j, d_jump, x, d_jump / DZ_M, dip, coh, PERIOD, 1.0)
+    assert refl_j == pytest.approx(20.0)
+    assert excess_j == pytest.approx(40.0)
+    assert dis_j > 20.0
+
+
+def test_dip_agreement_is_missing_without_coherent_reflections():
+    dip, coh = _dipping_field(20.0)
+    x, d = _ramp_surface(300.0, 800.0, 40.0, 20.0)
+    c = _cand(0, brk=35, toe=75, steepest=55, slope_deg=20.0)
+    out = dip_agreement(c, d, x, d / DZ_M, dip, np.zeros_like(coh), PERIOD, 3.0)
+    assert all(np.isnan(v) for v in out)
+
+
+def test_outer_profile_is_the_shallowest_surface_that_dips_with_its_reflections():
+    dip, coh = _dipping_field(20.0)
+    x, d_jump = _ramp_surface(500.0, 560.0, 40.0, 60.0)  # shallowest, but a jump
+    _, d_fore = _ramp_surface(300.0, 800.0, 60.0, 20.0)  # follows the foreset reflections
+    _, d_old = _ramp_surface(200.0, 700.0, 90.0, 20.0)  # an older clinoform beneath
+    depths = [d_jump, d_fore, d_old]
+    paths = [TrackedPath(z_index=d / DZ_M, quality=np.ones(N), polarity="unknown", rank=i) for i, d in enumerate(depths)]
+    g = [
+        _cand(0, brk=48, toe=58, steepest=53, slope_deg=60.0),
+        _cand(1, brk=30, toe=80, steepest=55, slope_deg=20.0),
+        _cand(2, brk=20, toe=70, steepest=45, slope_deg=20.0),
+    ]
+
+    def agreement(m):
+        return dip_agreement(m, depths[m.path_rank], x, paths[m.path_rank].z_index, dip, coh, PERIOD, 2.0)
+
+    core = slice(45, 56)
+    assert choose_profile(g, core, paths, depths, set(), PERIOD, agreement=agreement).path_rank == 1
+    # without the dip test the shallowest strong surface (the jump) would be taken
+    assert choose_profile(g, core, paths, depths, set(), PERIOD).path_rank == 0
+
+
+def test_slope_face_starts_at_the_strong_foreset_not_in_a_weak_chaotic_interior():
+    tr, z = np.meshgrid(np.arange(60), np.arange(80), indexing="ij")
+    # strong flat layering everywhere (the section's typical amplitude)
+    env = np.full(tr.shape, 0.5)
+    dip = np.zeros(tr.shape)
+    # a weak interior (traces 0-29) whose noise gives coherent-looking dips
+    interior = (tr < 30) & (z > 30)
+    dip[interior] = 30.0
+    env[interior] = 0.05
+    # a strong foreset wedge dipping below a 45-degree line (traces 30-59)
+    wedge = (tr >= 30) & (z > tr - 10)
+    dip[wedge] = 30.0
+    env[wedge] = 1.0
+    f = slope_faces(dip, np.ones_like(dip), env, min_dip_deg=5, period_samples=4)
+    plus = [fc for fc in f if fc.direction == "+"]
+    assert len(plus) == 1
+    # the face starts where the strong wedge starts; the weak interior is not part of it
+    assert plus[0].trace[0] == 30
+    np.testing.assert_allclose(plus[0].z_index[10], 31, atol=2)
