@@ -164,5 +164,14 @@ def slope_faces(
             offs = np.arange(-max(1, hz // 2), hz + 1)
             cand = np.clip(t0[:, None] + offs[None, :], 0, nz - 1)
             best = cand[np.arange(run.size), np.argmax(env[run[:, None], cand], axis=1)]
+        # a slope face deepens basinward: the part landward of its
+        # shallowest point (tops of older clinoforms beneath the platform
+        # top) and basinward of its deepest point is not this slope
+        zs = ndimage.gaussian_filter1d(ndimage.median_filter(np.asarray(best, float), size=5, mode="nearest"), 1.0)
+        a, b = (int(np.argmin(zs)), int(np.argmax(zs))) if sgn > 0 else (int(np.argmax(zs)), int(np.argmin(zs)))
+        lo, hi = min(a, b), max(a, b)
+        if hi - lo + 1 < min_traces:
+            continue
+        run, best = run[lo : hi + 1], best[lo : hi + 1]
         out.append(SlopeFace(direction, run.astype(np.int64), best.astype(np.float64)))
     return out

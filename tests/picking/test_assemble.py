@@ -107,3 +107,17 @@ def test_slope_face_starts_at_the_strong_foreset_not_in_a_weak_chaotic_interior(
     # the face starts where the strong wedge starts; the weak interior is not part of it
     assert plus[0].trace[0] == 30
     np.testing.assert_allclose(plus[0].z_index[10], 31, atol=2)
+
+
+def test_slope_face_starts_at_its_shallowest_point():
+    # a face deepens basinward: where the dipping region's top rises
+    # basinward (tops of older clinoforms beneath a platform top, traces
+    # 0-19) it is not the slope face (geometry, common practice, no source)
+    tr, z = np.meshgrid(np.arange(60), np.arange(80), indexing="ij")
+    top = np.where(tr < 20, 40 - tr, 20 + (tr - 20))
+    dip = np.where(z > top, 30.0, 0.0)
+    f = slope_faces(dip, np.ones_like(dip), np.ones_like(dip), min_dip_deg=5, period_samples=4)
+    plus = [fc for fc in f if fc.direction == "+"]
+    assert len(plus) == 1
+    assert abs(int(plus[0].trace[0]) - 20) <= 2
+    assert np.all(np.diff(plus[0].z_index) >= -1.0)
