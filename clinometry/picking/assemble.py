@@ -26,6 +26,8 @@ from .margins import velocity_at
 from .tracking import TrackedPath
 
 __all__ = [
+    "SIDE_LOBE_PERIODS",
+    "select_clinoforms",
     "limit_slope",
     "choose_profile",
     "dip_agreement",
@@ -435,3 +437,59 @@ def limit_slope(z, distance_m, brk, toe, max_gradient):
     clipped *= total / clipped.sum()
     z[lo + 1 : hi + 1] = z[lo] + sgn * np.cumsum(clipped)
     return z
+
+
+# two surfaces closer than this (in dominant periods, median along the foreset)
+# image one reflector: zero-phase wavelet lobes are about half a period apart,
+# with a margin for tracking jitter (Widess 1973, from memory)
+SIDE_LOBE_PERIODS = 0.6
+
+
+def select_clinoforms(profile, members, paths, period_samples, notes):
+    """Older clinoforms of a margin: distinct surfaces, one break each.
+
+    A member surface is kept as an older clinoform only if
+
+    - its break does not lie above the outer profile at that trace by more
+      than half a period: older clinoforms lie beneath the younger ones
+      (law of superposition, Steno 1669; a surface above the profile is in
+      the overlying fill, not part of the margin);
+    - it is not a wavelet side lobe or a duplicate of a surface already
+      kept: two tracked surfaces that stay within half a period of each
+      other along the kept one's foreset (break to toe) image the same
+      reflector (adjacent lobes of a zero-phase wavelet are about half a
+      period apart; Widess 1973, from memory), so only the more confident
+      one (the outer profile first) is kept.
+
+    Members failing a test are dropped with a note saying why rather than
+    kept with a scattered break. Returns the kept members (profile first).
+    """
+    half = 0.5 * period_samples
+    prof_zi = paths[profile.path_rank].z_index
+    kept = [profile]
+    rest = sorted((m for m in members if m is not profile), key=lambda m: -m.confidence)
+    for m in rest:
+        zi = paths[m.path_rank].z_index
+        if m.shelf_break is not None and zi[m.shelf_break] < prof_zi[m.shelf_break] - half:
+            notes.append(
+                f"clinoform break at trace {m.shelf_break} dropped: it lies above the outer profile of the "
+                f"margin facing {profile.direction} (a younger surface cannot lie beneath an older one)"
+            )
+            continue
+        lobe = None
+        for k in kept:
+            lo, hi = foreset_span(k)
+            lo2, hi2 = foreset_span(m)
+            a, b = min(lo, lo2), max(hi, hi2)
+            d = np.abs(zi[a : b + 1] - paths[k.path_rank].z_index[a : b + 1])
+            if d.size and float(np.median(d)) <= SIDE_LOBE_PERIODS * period_samples:
+                lobe = k
+                break
+        if lobe is not None:
+            notes.append(
+                f"clinoform break at trace {m.shelf_break} dropped: its surface runs within half a period of "
+                f"the surface with the break at trace {lobe.shelf_break} (a wavelet side lobe of the same reflector)"
+            )
+            continue
+        kept.append(m)
+    return kept

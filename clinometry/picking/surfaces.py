@@ -16,6 +16,11 @@ Steps (each in its own module, explained there):
    where a basin fill onlaps the slope, the slope face is found from the
    coherent dip field and joined to the platform top and basin floor; the
    outer profile of each margin is chosen and inconsistent margins dropped.
+   Its older clinoforms are the other surfaces of the group beneath it, one
+   break each; a surface whose break lies above the outer profile, or that
+   runs within about half a period of a kept surface (a wavelet side lobe
+   of the same reflector), is dropped with a note
+   (:func:`~clinometry.picking.assemble.select_clinoforms`).
 
 All lengths derive from the dominant wavelength of the data and the
 velocity, never from trace or sample counts, so the picker behaves the same
@@ -37,6 +42,7 @@ from .faces import slope_faces
 from .margins import EDGE_CONFIDENCE_FACTOR, profile_candidates, to_depth, velocity_at
 from .orientation import reflector_orientation
 from .assemble import (
+    select_clinoforms,
     FACE_MIN_DIP_DEG,
     choose_profile,
     dip_agreement,
@@ -367,6 +373,7 @@ def pick_default(
         span_p = slice(lo_p, hi_p + 1)
         prof_z = float(np.mean(paths[profile.path_rank].z_index[span_p]))
         below = [m for m in g if float(np.mean(paths[m.path_rank].z_index[span_p])) >= prof_z - 1.0]
+        below = select_clinoforms(profile, below, paths, period_samples, notes)
         ordered = sorted(below, key=lambda m: -float(np.mean(depth_list[m.path_rank][core])))
         clinos = []
         for m in ordered:

@@ -10,7 +10,7 @@ memory).
 import numpy as np
 import pytest
 
-from clinometry.picking.assemble import choose_profile, dip_agreement
+from clinometry.picking.assemble import choose_profile, dip_agreement, select_clinoforms
 from clinometry.picking.faces import slope_faces
 from clinometry.picking.margins import MarginCandidate
 from clinometry.picking.tracking import TrackedPath
@@ -121,3 +121,53 @@ def test_slope_face_starts_at_its_shallowest_point():
     assert len(plus) == 1
     assert abs(int(plus[0].trace[0]) - 20) <= 2
     assert np.all(np.diff(plus[0].z_index) >= -1.0)
+
+
+def _clino_stack():
+    # outer profile (rank 0): platform top at 60 samples, break at trace 60, foreset to trace 90;
+    # an older clinoform (rank 1) two periods deeper with its break landward at trace 50
+    # (older = deeper and landward, superposition; Mitchum, Vail & Sangree 1977, from memory)
+    x = np.arange(N, dtype=float)
+    prof = 60.0 + np.clip(x - 60, 0, 30) * 2.0
+    older = 80.0 + np.clip(x - 50, 0, 30) * 2.0
+    return x, prof, older
+
+
+def test_select_clinoforms_keeps_a_deeper_landward_clinoform():
+    _, prof, older = _clino_stack()
+    paths = [TrackedPath(z_index=z, quality=np.ones(N), polarity="unknown", rank=i) for i, z in enumerate((prof, older))]
+    p = _cand(0, brk=60, toe=90, steepest=75, slope_deg=11.3)
+    o = _cand(1, brk=50, toe=80, steepest=65, slope_deg=11.3, confidence=0.9)
+    notes = []
+    kept = select_clinoforms(p, [p, o], paths, PERIOD, notes)
+    assert [k.path_rank for k in kept] == [0, 1]
+    assert notes == []
+
+
+def test_select_clinoforms_drops_a_side_lobe_within_half_a_period():
+    # a surface 4 samples (0.4 period) beneath the profile all along is a lobe of the same
+    # reflector: zero-phase wavelet lobes are about half a period apart (Widess 1973, from memory)
+    _, prof, older = _clino_stack()
+    lobe = prof + 0.4 * PERIOD
+    paths = [TrackedPath(z_index=z, quality=np.ones(N), polarity="unknown", rank=i) for i, z in enumerate((prof, lobe, older))]
+    p = _cand(0, brk=60, toe=90, steepest=75, slope_deg=11.3)
+    lb = _cand(1, brk=61, toe=90, steepest=75, slope_deg=11.3, confidence=0.95)
+    o = _cand(2, brk=50, toe=80, steepest=65, slope_deg=11.3, confidence=0.9)
+    notes = []
+    kept = select_clinoforms(p, [lb, p, o], paths, PERIOD, notes)
+    assert [k.path_rank for k in kept] == [0, 2]
+    assert len(notes) == 1 and "side lobe" in notes[0] and "trace 61" in notes[0]
+
+
+def test_select_clinoforms_drops_a_break_above_the_outer_profile():
+    # a break one period above the profile's platform top lies in the overlying fill: an
+    # older clinoform lies beneath the younger one (superposition, Steno 1669, from memory)
+    _, prof, older = _clino_stack()
+    above = prof - 2.0 * PERIOD
+    paths = [TrackedPath(z_index=z, quality=np.ones(N), polarity="unknown", rank=i) for i, z in enumerate((prof, above))]
+    p = _cand(0, brk=60, toe=90, steepest=75, slope_deg=11.3)
+    a = _cand(1, brk=40, toe=90, steepest=75, slope_deg=11.3, confidence=0.9)
+    notes = []
+    kept = select_clinoforms(p, [p, a], paths, PERIOD, notes)
+    assert [k.path_rank for k in kept] == [0]
+    assert len(notes) == 1 and "above the outer profile" in notes[0] and "trace 40" in notes[0]
