@@ -6,8 +6,10 @@ synthetic lines from ``clinometry.synth.make_line`` across SNR inf, 6, 3 and
 linear v(z)), trace spacing, line azimuth and recording delay, and prints
 per SNR (medians over the margins): break position error (m, along-line),
 break depth error (m), maximum-slope error (deg), relief error (%), the
-margin detection rate and the number of false margins on lines that have
-none.  Slope and relief come from ``clinometry.metrics.measure`` (said in
+margin detection rate, the number of false margins on lines that have
+none, and how many found margins get the true shelf-break trajectory class
+(ascending / flat / descending; a margin without a measured trajectory
+counts as wrong).  Slope and relief come from ``clinometry.metrics.measure`` (said in
 the output).
 
 Usage::
@@ -84,11 +86,12 @@ def _match(truth_margin, picked):
     return best if lo - width <= best.shelf_break.trace <= hi + width else None
 
 
-def run(quick: bool, verbose: bool = False):
-    scen = [s for s in SCENARIOS if s != NO_MARGIN]
+def run(quick: bool, verbose: bool = False, scenarios=None):
+    scen = [s for s in SCENARIOS if s != NO_MARGIN and (not scenarios or s in scenarios)]
     variants = VARIANTS[:2] if quick else VARIANTS
     seeds = (0,) if quick else (0, 1)
-    rows = {snr: {"bpos": [], "bdep": [], "slope": [], "relief": [], "found": 0, "n": 0, "false": 0, "n_none": 0, "t": []} for snr in SNRS}
+    rows = {snr: {"bpos": [], "bdep": [], "slope": [], "relief": [], "found": 0, "n": 0, "false": 0, "n_none": 0, "t": [],
+                  "traj_ok": 0, "traj_n": 0} for snr in SNRS}
     for snr, variant, seed in itertools.product(SNRS, variants, seeds):
         for sc in scen + [NO_MARGIN]:
             sec, truth = _line(sc, snr, seed, variant)
@@ -128,6 +131,14 @@ def run(quick: bool, verbose: bool = False):
                     r["slope"].append(abs(s - tm["slope_max_deg"]))
                 if rel is not None and tm.get("relief_m"):
                     r["relief"].append(100.0 * abs(rel - tm["relief_m"]) / tm["relief_m"])
+                t_cls = (tm.get("trajectory") or {}).get("class")
+                if t_cls is not None:
+                    # a margin without a measured trajectory counts as a miss
+                    r["traj_n"] += 1
+                    got = (mm.trajectory or {}).get("class")
+                    r["traj_ok"] += int(got == t_cls)
+                    if verbose:
+                        print(f"    trajectory {got} vs {t_cls}")
     return rows, len(scen), variants, seeds
 
 
@@ -139,18 +150,19 @@ def main(argv=None):
     ap = argparse.ArgumentParser(description=__doc__.splitlines()[0])
     ap.add_argument("--quick", action="store_true", help="fewer variants and seeds (about a minute)")
     ap.add_argument("--verbose", action="store_true", help="one line per margin")
+    ap.add_argument("--scenarios", nargs="+", metavar="NAME", help="only these margin scenarios (for quick checks)")
     args = ap.parse_args(argv)
     t0 = time.perf_counter()
-    rows, n_scen, variants, seeds = run(args.quick, args.verbose)
+    rows, n_scen, variants, seeds = run(args.quick, args.verbose, args.scenarios)
     print(f"# picker accuracy on clinometry.synth lines ({n_scen} margin scenarios + 1 no-margin, "
           f"{len(variants)} wavelet/velocity/spacing/header variants, seeds {list(seeds)})")
     print("slope and relief from clinometry.metrics.measure; errors are medians over found margins\n")
-    print("| SNR | break position error (m) | break depth error (m) | max-slope error (deg) | relief error (%) | margins found | false margins (no-margin lines) | s/line |")
-    print("|---|---|---|---|---|---|---|---|")
+    print("| SNR | break position error (m) | break depth error (m) | max-slope error (deg) | relief error (%) | margins found | false margins (no-margin lines) | trajectory class right | s/line |")
+    print("|---|---|---|---|---|---|---|---|---|")
     for snr, r in rows.items():
         label = "inf" if math.isinf(snr) else f"{snr:g}"
         print(f"| {label} | {_med(r['bpos'])} | {_med(r['bdep'])} | {_med(r['slope'])} | {_med(r['relief'])} | "
-              f"{r['found']}/{r['n']} | {r['false']} on {r['n_none']} | {np.mean(r['t']):.2f} |")
+              f"{r['found']}/{r['n']} | {r['false']} on {r['n_none']} | {r['traj_ok']}/{r['traj_n']} | {np.mean(r['t']):.2f} |")
     print(f"\ntotal {time.perf_counter() - t0:.0f} s")
     return 0
 
