@@ -181,8 +181,11 @@ def steepest_unconfirmed(cand, z_index, dip_deg, coh, period_samples, half_width
     tr = np.arange(max(lo_f, cand.steepest - w), min(hi_f, cand.steepest + w) + 1)
     if tr.size < 3:
         return ""
-    below = np.round(z_index[tr])[:, None] + np.arange(1, int(np.ceil(period_samples)) + 2)[None, :]
-    inside = below <= nz - 1  # pixels below the record are not evidence
+    # the reflection itself: from the pick down through the main lobe of the
+    # wavelet (half a period); deeper pixels image older, often flatter
+    # strata beneath a gentle slope, not the slope
+    below = np.round(z_index[tr])[:, None] + np.arange(0, int(np.ceil(0.5 * period_samples)) + 1)[None, :]
+    inside = (below >= 0) & (below <= nz - 1)  # pixels outside the record are not evidence
     below = np.clip(below, 0, nz - 1).astype(int)
     d = sgn * dip_deg[tr[:, None], below]
     sure = (coh[tr[:, None], below] >= FACE_COHERENCE) & inside

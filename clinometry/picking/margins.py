@@ -76,6 +76,11 @@ MIN_FORESET_QUALITY = 0.2
 #: largest share of the relief allowed in one trace-to-trace step of the
 #: picked surface (common practice, no source)
 MAX_STEP_FRACTION = 0.35
+#: a bend is clear when its curvature is at least this fraction of the
+#: sharpest bend on its side of the steepest point (used only when the
+#: sharpest bends bound less than the minimum relief of a leg that has it)
+#: (our choice, no source)
+OUTER_BEND_FRACTION = 0.25
 #: the curvature smoothing is at least the slope width divided by this
 #: (common practice, no source)
 SLOPE_WIDTH_SMOOTHING_DIVISOR = 8.0
@@ -161,6 +166,24 @@ def _legs(d_det, prominence):
     lo, _ = signal.find_peaks(-d_det, prominence=prominence)
     ext = sorted([(0, 0)] + [(int(i), 1) for i in hi] + [(int(i), -1) for i in lo] + [(n - 1, 0)])
     return [e[0] for e in ext]
+
+
+def _outer_bends(kappa, land, basin, direction, brk, toe):
+    """Outermost clear convex bend landward and concave bend basinward.
+
+    Clear: a local curvature extremum at least :data:`OUTER_BEND_FRACTION`
+    as sharp as the strongest bend on its side.  Returns ``(break, toe)``
+    trace indices (the given ones when no other bend is clear).
+    """
+    out = []
+    for idx, sign, strongest, landward in ((land, 1.0, brk, True), (basin, -1.0, toe, False)):
+        k = sign * kappa[idx]
+        peaks, _ = signal.find_peaks(k, height=OUTER_BEND_FRACTION * sign * kappa[strongest])
+        pts = [int(idx[i]) for i in peaks] + [int(strongest)]
+        # outermost: landward of the break is towards trace 0 for "+"
+        outer_low = landward == (direction == "+")
+        out.append(min(pts) if outer_low else max(pts))
+    return out[0], out[1]
 
 
 def profile_candidates(
@@ -274,6 +297,12 @@ def profile_candidates(
         if toe is None or kappa[toe] >= 0 or toe == p:
             toe_reason = "no concave-up bend basinward of the steepest point (toe beyond the line or no basin floor)"
             toe = None
+        if brk is not None and toe is not None and abs(d_leg[toe] - d_leg[brk]) < min_relief_m <= abs(d_leg[b] - d_leg[a]):
+            # the strongest bends bound only one step of a leg that deepens
+            # by a resolvable relief: a ramp or slope in gentle steps (a
+            # terrace between them); its break and toe are the outermost
+            # clear bends of the leg
+            brk, toe = _outer_bends(kappa, land, basin, direction, brk, toe)
         at_end = []
         for name_, pt in (("shelf break", brk), ("toe", toe)):
             if pt is not None and (pt < edge or pt > n - 1 - edge):
