@@ -135,9 +135,13 @@ def slope_faces(
     # the gaps between wavelet lobes of one reflection do not count as weak
     env_s = ndimage.gaussian_filter(env, (STRENGTH_SIGMA_TRACES, max(1.0, STRENGTH_SIGMA_PERIODS * period_samples)))
     strong = env_s >= STRENGTH_FRACTION_OF_MEDIAN * float(np.median(env_s))
+    del env_s  # only the mask is used from here on (memory)
+    strong &= coh >= MIN_COHERENCE
     out = []
     for direction, sgn in (("+", 1.0), ("-", -1.0)):
-        mask = (coh >= MIN_COHERENCE) & (sgn * dip >= min_dip_deg) & strong
+        # sgn * dip >= min_dip_deg, without a full-size float copy of the dip
+        mask = (dip >= min_dip_deg) if sgn > 0 else (dip <= -min_dip_deg)
+        mask &= strong
         mask = open_rectangle(mask, (3, hz))  # = ndimage.binary_opening, separable
         lab, nlab = ndimage.label(mask)
         if nlab == 0:

@@ -268,6 +268,8 @@ def pick_default(
         coherence=coh,
         dead=cond.dead,
     )
+    # the balanced amplitudes are not used after tracking: released (memory)
+    cond = dataclasses.replace(cond, amplitude=None)
     n = data.shape[0]
     rows = np.arange(n)
     dip_deg = true_dip_deg(section, velocity, dip, dx_m)

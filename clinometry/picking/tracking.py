@@ -226,17 +226,28 @@ def _pool_cells(a, factor, how, pad_mode):
     return out
 
 
-def _refine(env, coarse, factor):
-    """Full-resolution envelope maximum inside each coarse cell, sub-sample."""
+def _refine(env, coarse, factor, scale=None):
+    """Full-resolution envelope maximum inside each coarse cell, sub-sample.
+
+    With ``scale`` the envelope is normalised as ``min(env / scale, 1)``
+    (float32) at the cells looked at only.
+    """
     n, nz = env.shape
     start = np.clip(coarse * factor, 0, nz - 1)
     offs = np.arange(factor)
     idx = np.clip(start[:, None] + offs[None, :], 0, nz - 1)
     rows = np.arange(n)
-    best = idx[rows, np.argmax(env[rows[:, None], idx], axis=1)]
+
+    def at(r, c):
+        v = env[r, c]
+        if scale is None:
+            return v
+        return np.clip(np.divide(v, scale, dtype=np.float32), 0.0, 1.0)
+
+    best = idx[rows, np.argmax(at(rows[:, None], idx), axis=1)]
     lo = np.clip(best - 1, 0, nz - 1)
     hi = np.clip(best + 1, 0, nz - 1)
-    y0, y1, y2 = env[rows, lo], env[rows, best], env[rows, hi]
+    y0, y1, y2 = at(rows, lo), at(rows, best), at(rows, hi)
     den = y0 - 2.0 * y1 + y2
     with np.errstate(divide="ignore", invalid="ignore"):
         shift = np.where((den < 0) & (lo < best) & (best < hi), 0.5 * (y0 - y2) / den, 0.0)
@@ -292,12 +303,15 @@ def track_paths(
     env = np.asarray(envelope, dtype=np.float32)
     amp = np.asarray(amplitude, dtype=np.float32)
     n, nz = env.shape
-    scale = float(np.percentile(env, NORMALISING_PERCENTILE)) or 1.0
-    e = env / scale
-    np.clip(e, 0.0, 1.0, out=e)
+    scale = np.float32(float(np.percentile(env, NORMALISING_PERCENTILE)) or 1.0)
     factor = int(max(1, round(period_samples / CELLS_PER_PERIOD)))
     m = int(np.ceil(nz / factor))
-    coarse = _pool_cells(e, factor, "max", "constant")
+    # the normalised envelope min(env / scale, 1) is not made as a full-size
+    # copy: dividing by a positive number and clipping are monotone, so the
+    # maximum of a cell is the normalised maximum (the same float32 values)
+    coarse = _pool_cells(env, factor, "max", "constant")
+    np.divide(coarse, scale, out=coarse)
+    np.clip(coarse, 0.0, 1.0, out=coarse)
     k = int(np.ceil(max_jump_samples / factor)) + 1
     jump_cost = jump_cost_per_period * factor / max(period_samples, 1.0)
     half = max(1, int(round(0.5 * period_samples / factor)))
@@ -327,7 +341,7 @@ def track_paths(
         q = coarse[np.arange(n), cpath].astype(np.float64)
         q = np.clip((q - background) / max(1.0 - background, 1e-6), 0.0, 1.0)
         q[dead] = 0.0
-        zi, best = _refine(e, cpath, factor)
+        zi, best = _refine(env, cpath, factor, scale)
         sgn = np.sign(amp[np.arange(n), best])
         strong = q > 0.3
         frac = float(np.mean(sgn[strong] > 0)) if strong.any() else 0.5
