@@ -3,12 +3,17 @@
 :func:`run_batch` plans the tasks (:func:`clinometry.batch.tasks.plan_tasks`),
 skips the complete ones when resuming, and runs :func:`run_task` on each of
 the others -- in this process for one worker, in a
-:class:`concurrent.futures.ProcessPoolExecutor` (``spawn`` start method, so
-the same code runs on Linux, macOS and Windows) plus this process for
+:class:`concurrent.futures.ProcessPoolExecutor` plus this process for
 several, or on a
 ``dask.distributed`` cluster given by its scheduler address.  The task
 function, its options and its seed are the same on every path, so the
 per-line files are the same whichever way they were computed.
+
+The worker processes are forked on Linux when this process has no other
+thread yet (so they start at once with the analysis already imported,
+instead of importing numpy, scipy, scikit-image and xarray again for about
+2 s each), and spawned otherwise (macOS, Windows, or a process with threads,
+where forking is unsafe).  Both run the same code.
 
 When the tasks are done, the tables are rebuilt from what is on disk: the
 margins table from every task's result JSON, the errors table from the
@@ -110,11 +115,30 @@ def _ready():
     return os.getpid()
 
 
+def _pool_context():
+    """``fork`` on Linux while this process has a single thread, else ``spawn``.
+
+    A forked worker starts with the imports of this process (no start-up
+    of about 2 s); forking a process with other threads running can
+    deadlock the child (a lock held by another thread at the fork is never
+    released), and macOS system libraries are not fork-safe, so then the
+    workers are spawned (common practice, no source; see the Python
+    documentation of :mod:`multiprocessing`, "Contexts and start methods").
+    """
+    if sys.platform.startswith("linux") and threading.active_count() == 1:
+        return multiprocessing.get_context("fork")
+    return multiprocessing.get_context("spawn")
+
+
 def _iter_local(tasks, options, workers):
     """Run the tasks on ``workers`` local processes, this one included.
 
+    The worker processes are started when this function is called (not at
+    the first ``next``), before any thread of the caller such as a progress
+    bar exists, so they can be forked (see :func:`_pool_context`).
+
     This process is one of the workers: a thread here takes lines from the
-    same queue that feeds ``workers - 1`` spawned processes.  A spawned
+    same queue that feeds ``workers - 1`` worker processes.  A worker
     process is given lines only once it has started and imported the
     analysis (a no-op job run after its initializer comes back), so no line
     waits behind a start-up while this process could have run it, and a
@@ -123,9 +147,19 @@ def _iter_local(tasks, options, workers):
     source), so a slow line does not hold back a queue of others.
     """
     if workers <= 1:
-        for t in tasks:
-            yield run_task(t, options)
-        return
+        return (run_task(t, options) for t in tasks)
+    ctx = _pool_context()
+    if ctx.get_start_method() == "fork":
+        _warm_up(bool(options.plot))  # imported once here, inherited by the workers
+    pool = ProcessPoolExecutor(max_workers=workers - 1, mp_context=ctx, initializer=_warm_up,
+                               initargs=(bool(options.plot),))
+    ready = [pool.submit(_ready) for _ in range(workers - 1)]  # the worker processes start now
+    logger.debug("batch: %d worker process(es) started by %s", workers - 1, ctx.get_start_method())
+    return _drain_local(tasks, options, pool, ready)
+
+
+def _drain_local(tasks, options, pool, ready):
+    """The records of :func:`_iter_local` for several workers, as they come."""
     pending = deque(tasks)
     lock = threading.Lock()
     results = queue.Queue()
@@ -142,9 +176,6 @@ def _iter_local(tasks, options, workers):
         except BaseException as err:  # handed to the caller, which re-raises it
             results.put(("error", err))
 
-    ctx = multiprocessing.get_context("spawn")
-    pool = ProcessPoolExecutor(max_workers=workers - 1, mp_context=ctx, initializer=_warm_up,
-                               initargs=(bool(options.plot),))
     running = set()
     n_ready = 0
 
@@ -157,8 +188,8 @@ def _iter_local(tasks, options, workers):
     local = threading.Thread(target=here, name="clinometry-batch-local", daemon=True)
     clean = False
     try:
-        for _ in range(workers - 1):  # the worker processes start importing now
-            pool.submit(_ready).add_done_callback(lambda f: results.put(("ready", f)))
+        for fut in ready:  # a worker takes lines once it has started (and imported)
+            fut.add_done_callback(lambda f: results.put(("ready", f)))
         local.start()
         done = 0
         while done < len(tasks):

@@ -4,12 +4,14 @@ on a Dask LocalCluster started by the test."""
 
 import csv
 import json
+import multiprocessing
 import os
 import shutil
 
 import pytest
 
 from clinometry.batch import run_batch
+from clinometry.batch import run as batch_run
 from clinometry.result import validate_result_dict
 
 from .conftest import BATCH_SCENARIOS
@@ -88,9 +90,20 @@ def test_resume_skips_complete_lines_and_redoes_a_damaged_one(good_lines, refere
     assert (out / "margins.csv").read_text() == (reference_run[0] / "margins.csv").read_text()
 
 
-def test_two_workers_give_the_same_files_as_one(good_lines, reference_run, tmp_path):
+@pytest.mark.parametrize("start_method", ["fork", "spawn"])
+def test_two_workers_give_the_same_files_as_one(good_lines, reference_run, tmp_path, monkeypatch, start_method):
+    if start_method not in multiprocessing.get_all_start_methods():
+        pytest.skip(f"no {start_method} start method on this platform")
+    used = []
+
+    def context():
+        used.append(start_method)
+        return multiprocessing.get_context(start_method)
+
+    monkeypatch.setattr(batch_run, "_pool_context", context)
     out = tmp_path / "out"
     summary = run_batch([good_lines], out, workers=2, plot=False, quiet=True, velocity=2500.0)
+    assert used == [start_method]
     assert summary.exit_code == 0
     assert _jsons(out) == _jsons(reference_run[0])
     assert (out / "margins.csv").read_text() == (reference_run[0] / "margins.csv").read_text()
@@ -146,3 +159,34 @@ def test_resume_redoes_lines_made_with_another_velocity(good_lines, reference_ru
     assert (summary.n_skipped, summary.n_ok) == (0, 2)
     for d in _jsons(out).values():
         assert d["velocity"]["velocity_m_s"] == 2600.0
+
+
+def test_workers_are_forked_only_on_linux_from_a_single_thread(monkeypatch):
+    # fork is unsafe in a process with other threads and on macOS (Python
+    # documentation of multiprocessing, "Contexts and start methods"); spawn
+    # is the default there (common practice, no source)
+    monkeypatch.setattr(batch_run.sys, "platform", "linux")
+    monkeypatch.setattr(batch_run.threading, "active_count", lambda: 1)
+    assert batch_run._pool_context().get_start_method() == "fork"
+    monkeypatch.setattr(batch_run.threading, "active_count", lambda: 2)
+    assert batch_run._pool_context().get_start_method() == "spawn"
+    monkeypatch.setattr(batch_run.threading, "active_count", lambda: 1)
+    monkeypatch.setattr(batch_run.sys, "platform", "darwin")
+    assert batch_run._pool_context().get_start_method() == "spawn"
+
+
+def test_worker_processes_start_before_the_caller_makes_threads(good_lines, tmp_path, monkeypatch):
+    # the pool must exist when _iter_local returns, before run_batch creates
+    # its progress bar (a thread): then it could be forked
+    seen = []
+    real = batch_run._iter_local
+
+    def spy(tasks, options, workers):
+        it = real(tasks, options, workers)
+        seen.append(len(multiprocessing.active_children()))
+        return it
+
+    monkeypatch.setattr(batch_run, "_iter_local", spy)
+    summary = run_batch([good_lines], tmp_path / "out", workers=2, plot=False, quiet=True, velocity=2500.0)
+    assert summary.exit_code == 0
+    assert seen == [1]
