@@ -63,6 +63,8 @@ DEAD_RMS_FRACTION = 1e-4
 BALANCE_WINDOW_TRACES = 31
 #: cells per block of traces for per-trace work (memory only, not the result)
 _BLOCK_CELLS = 1 << 19
+#: traces of the mean spectrum (the default of :func:`dominant_period`)
+_PERIOD_TRACES = 400
 
 
 def _row_blocks(a):
@@ -324,7 +326,10 @@ def condition(data, dz: float, *, known_dead=()) -> Conditioned:
     scale = _balance_scale(bal, dead, BALANCE_WINDOW_TRACES)
     if scale is not None:
         np.divide(bal, scale[:, None], out=bal)
-    period = dominant_period(bal[~dead] if (~dead).any() else bal, dz)
+    # the live traces that dominant_period would take from bal[~dead] (every
+    # step-th), gathered without a full-size copy of the live traces
+    rows = np.flatnonzero(~dead) if (~dead).any() else np.arange(bal.shape[0])
+    period = dominant_period(bal[rows[:: max(1, rows.size // _PERIOD_TRACES)]], dz, max_traces=_PERIOD_TRACES)
     env = envelope(bal)
     logger.debug("conditioned: %d dead traces, dominant period %.3g", int(dead.sum()), period)
     return Conditioned(amplitude=bal, envelope=env, dead=dead, period_z=period, notes=tuple(notes))

@@ -70,6 +70,23 @@ def test_condition_reports_dead_traces_and_keeps_input():
     np.testing.assert_array_equal(d, before)
 
 
+def test_condition_period_is_that_of_the_live_traces_alone(ricker):
+    # the dominant period is measured on live traces only: the same number as
+    # dominant_period of the balanced live traces (their every k-th, k = n // 400),
+    # with 999 traces (k = 2) and every 7th dead; Ricker (1953) 25 Hz wavelet, 2 ms
+    rng = np.random.default_rng(11)
+    w = ricker(25.0, 2.0)
+    d = np.zeros((999, 300), np.float32)
+    for i in range(d.shape[0]):
+        d[i, 100 + i % 40 : 100 + i % 40 + w.size] = w * (1.0 + 0.1 * rng.standard_normal())
+    d += 0.01 * rng.standard_normal(d.shape).astype(np.float32)
+    d[::7] = 0.0
+    c = condition(d, 2.0)
+    assert c.dead.sum() == 143
+    assert c.period_z == dominant_period(c.amplitude[~c.dead], 2.0)
+    assert c.period_z == pytest.approx(40.0, rel=0.06)
+
+
 @pytest.mark.parametrize("shape", [(3, 10), (3, 7), (1, 4), (2, 5)])
 def test_open_rectangle_equals_scipy_binary_opening(shape):
     # reference: scipy.ndimage.binary_opening with the full rectangle as structure
