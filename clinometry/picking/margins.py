@@ -76,6 +76,11 @@ MIN_FORESET_QUALITY = 0.2
 #: largest share of the relief allowed in one trace-to-trace step of the
 #: picked surface (common practice, no source)
 MAX_STEP_FRACTION = 0.35
+#: an opposite flank starts where the surface rises basinward by more
+#: than this fraction of the steepest slope, and its bend extends this many
+#: smoothing lengths from the steep part of the flank (our choice, no source)
+FLANK_START_FRACTION = 0.1
+FLANK_BEND_SIGMAS = 2.0
 #: a bend is clear when its curvature is at least this fraction of the
 #: sharpest bend on its side of the steepest point (used only when the
 #: sharpest bends bound less than the minimum relief of a leg that has it)
@@ -166,6 +171,49 @@ def _legs(d_det, prominence):
     lo, _ = signal.find_peaks(-d_det, prominence=prominence)
     ext = sorted([(0, 0)] + [(int(i), 1) for i in hi] + [(int(i), -1) for i in lo] + [(n - 1, 0)])
     return [e[0] for e in ext]
+
+
+def _flank_start(gb, cut, p, sig):
+    """Trace index short of the bend where an opposite flank starts.
+
+    ``cut`` is the first trace of the flank (rising basinward more steeply
+    than :data:`TOP_FLATNESS_FRACTION` of the slope) on one side of the
+    steepest point ``p``.  The flank's bend lies before ``cut``: the result
+    is two smoothing lengths ``sig`` (traces; a Gaussian-smoothed kink bends
+    over about +-2 sigma) towards ``p``, or further where the surface still
+    rises by more than :data:`FLANK_START_FRACTION` of the slope.
+    """
+    step = 1 if p > cut else -1
+    k = cut
+    while k != p and gb[k] < -FLANK_START_FRACTION * gb[p]:
+        k += step
+    k2 = cut + step * int(np.ceil(FLANK_BEND_SIGMAS * sig))
+    k = max(k, k2) if step > 0 else min(k, k2)
+    return int(min(k, p) if step > 0 else max(k, p))
+
+
+def _bend(kappa, gb, near, full, sign, p, sig):
+    """Trace of the sharpest bend of one sign on one side of the steepest point.
+
+    ``full`` is the whole side, ``near`` the part short of an opposite
+    flank's bend.  The bend is searched in ``near`` first and kept only if
+    it is a bend of its own (a local extremum inside ``near``) and the
+    surface beyond it up to the end of ``near`` (the bend's own +-2 sigma
+    excepted) is flat (nowhere steeper than :data:`TOP_FLATNESS_FRACTION`
+    of the slope) over at least two sigma: a platform top or basin floor
+    that runs on to the opposite flank, as across an isolated platform.  Otherwise (a fold
+    limb, a stepped surface) the whole side is searched as before.  None
+    when ``full`` is empty.
+    """
+    if near.size >= 3 and near.size < full.size:
+        i = int(np.argmax(sign * kappa[near]))
+        if 0 < i < near.size - 1:
+            k = int(near[i])
+            reach = int(np.ceil(FLANK_BEND_SIGMAS * sig))
+            beyond = near[np.abs(near - p) > abs(k - p) + reach]
+            if beyond.size >= max(3, reach) and float(np.max(np.abs(gb[beyond]))) <= TOP_FLATNESS_FRACTION * gb[p]:
+                return k
+    return int(full[np.argmax(sign * kappa[full])]) if full.size else None
 
 
 def _outer_bends(kappa, land, basin, direction, brk, toe):
@@ -287,9 +335,16 @@ def profile_candidates(
         hi_s = min(hi, int(after[0]) - 1) if after.size else hi
         land = np.arange(lo_s, p + 1) if direction == "+" else np.arange(p, hi_s + 1)
         basin = np.arange(p, hi_s + 1) if direction == "+" else np.arange(lo_s, p + 1)
+        # the bend where the opposite flank starts (the far break of an
+        # isolated platform, the far toe of a basin) is not this margin's:
+        # break and toe are searched short of it
+        lo_b = lo_s if not before.size else min(p, _flank_start(gb, int(before[-1]), p, sig_leg))
+        hi_b = hi_s if not after.size else max(p, _flank_start(gb, int(after[0]), p, sig_leg))
+        land_b = land[(land >= lo_b) & (land <= hi_b)]
+        basin_b = basin[(basin >= lo_b) & (basin <= hi_b)]
         reasons = []
-        brk = int(land[np.argmax(kappa[land])]) if land.size else None
-        toe = int(basin[np.argmin(kappa[basin])]) if basin.size else None
+        brk = _bend(kappa, gb, land_b, land, 1.0, p, sig_leg)
+        toe = _bend(kappa, gb, basin_b, basin, -1.0, p, sig_leg)
         break_reason = toe_reason = ""
         if brk is None or kappa[brk] <= 0 or brk == p:
             break_reason = "no convex-up bend landward of the steepest point"
