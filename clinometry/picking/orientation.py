@@ -37,6 +37,8 @@ import logging
 import numpy as np
 from skimage.feature import structure_tensor
 
+from .condition import quantile_sample
+
 __all__ = ["reflector_orientation"]
 
 logger = logging.getLogger(__name__)
@@ -102,7 +104,7 @@ def reflector_orientation(image, *, sigma_z_samples: float, sigma_trace: float =
         _orientation_block(a[lo:hi], sigma, dip[s0:s1], coh[s0:s1], tr[s0:s1], s0 - lo)
     # where there is (almost) no gradient energy the orientation is
     # undefined: coherence 0 there, not round-off
-    floor = ENERGY_FLOOR * float(np.percentile(tr, 99)) if tr.size else 0.0
+    floor = ENERGY_FLOOR * float(np.percentile(quantile_sample(tr), 99)) if tr.size else 0.0
     coh[~(tr > floor)] = 0.0
     np.clip(coh, 0.0, 1.0, out=coh)
     return dip, coh

@@ -52,6 +52,8 @@ from dataclasses import dataclass
 import numpy as np
 from numpy.lib.stride_tricks import sliding_window_view
 
+from .condition import quantile_sample
+
 __all__ = ["TrackedPath", "min_cost_path", "track_paths"]
 
 logger = logging.getLogger(__name__)
@@ -303,7 +305,7 @@ def track_paths(
     env = np.asarray(envelope, dtype=np.float32)
     amp = np.asarray(amplitude, dtype=np.float32)
     n, nz = env.shape
-    scale = np.float32(float(np.percentile(env, NORMALISING_PERCENTILE)) or 1.0)
+    scale = np.float32(float(np.percentile(quantile_sample(env), NORMALISING_PERCENTILE)) or 1.0)
     factor = int(max(1, round(period_samples / CELLS_PER_PERIOD)))
     m = int(np.ceil(nz / factor))
     # the normalised envelope min(env / scale, 1) is not made as a full-size
@@ -327,7 +329,7 @@ def track_paths(
         dip_w = pool(coherence) ** 2 * dip_cost_per_period * factor / max(period_samples, 1.0)
     # background level of the image: reflections must stand above it to
     # count (noise at low SNR fills the whole image with envelope)
-    background = float(np.median(coarse[~dead])) if (~dead).any() else 0.0
+    background = float(np.median(quantile_sample(coarse, rows=np.flatnonzero(~dead)))) if (~dead).any() else 0.0
     # one float32 cost layout and one padded copy of the dip terms for every path
     kk = int(max(0, min(k, m - 1)))
     padded = _pad_dip_terms(dip_c, dip_w, kk) if dip_c is not None else None

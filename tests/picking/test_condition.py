@@ -4,7 +4,15 @@ import numpy as np
 import pytest
 from numpy.testing import assert_allclose
 
-from clinometry.picking.condition import balance_traces, condition, dead_trace_mask, dominant_period, envelope, fill_dead_traces
+from clinometry.picking.condition import (
+    balance_traces,
+    condition,
+    dead_trace_mask,
+    dominant_period,
+    envelope,
+    fill_dead_traces,
+    quantile_sample,
+)
 
 
 def test_dead_trace_mask_finds_zero_nan_and_constant_traces():
@@ -100,3 +108,25 @@ def test_open_rectangle_equals_scipy_binary_opening(shape):
         mask = rng.random((37, 61)) < density
         expected = ndimage.binary_opening(mask, structure=np.ones(shape, bool))
         np.testing.assert_array_equal(open_rectangle(mask, shape), expected)
+
+
+def test_quantile_sample_is_the_image_itself_up_to_the_cell_limit():
+    # small images: the quantile is exactly numpy's over the whole image
+    rng = np.random.default_rng(12)
+    a = rng.random((100, 50)).astype(np.float32)
+    assert quantile_sample(a, max_cells=5000) is a
+    assert np.percentile(quantile_sample(a, max_cells=5000), 99) == np.percentile(a, 99)
+    np.testing.assert_array_equal(quantile_sample(a, rows=np.arange(0, 100, 3), max_cells=5000), a[::3])
+
+
+def test_quantile_sample_of_a_large_image_keeps_the_quantile_within_its_standard_error():
+    # every k-th trace of 200 000 uniform cells, at most 20 000 kept: the 99th
+    # percentile of U(0, 1) is 0.99 and a sample quantile's standard error is
+    # sqrt(p (1 - p) / N) = 7e-4 for N = 20 000 (David & Nagaraja 2003, from memory)
+    rng = np.random.default_rng(13)
+    a = rng.random((2000, 100)).astype(np.float32)
+    s = quantile_sample(a, max_cells=20_000)
+    assert s.shape == (200, 100)
+    np.testing.assert_array_equal(s, a[::10])
+    assert abs(np.percentile(s, 99) - 0.99) < 4 * 7e-4
+    assert abs(np.median(s) - 0.5) < 4 * np.sqrt(0.25 / 20_000)
