@@ -49,6 +49,10 @@ FACE_MIN_DIP_DEG = 3.0
 #: reflections below a face must dip at least this fraction of its slope
 #: (common practice, no source)
 FACE_DIP_AGREEMENT = 0.4
+#: the reflection dip at the steepest point is read within this fraction of
+#: the foreset width (break to toe) on either side of it, at least one
+#: smoothing length (our choice, no source)
+STEEPEST_WINDOW_FORESET_FRACTION = 0.25
 #: structure-tensor coherence above which a dip is trusted in these tests
 #: (common practice, no source)
 FACE_COHERENCE = 0.5
@@ -177,7 +181,10 @@ def steepest_unconfirmed(cand, z_index, dip_deg, coh, period_samples, half_width
     n, nz = dip_deg.shape
     sgn = 1.0 if cand.direction == "+" else -1.0
     lo_f, hi_f = foreset_span(cand)
-    w = max(2, int(round(half_width_traces)))
+    # a wide gentle slope (a ramp) is judged over a share of its own width:
+    # one wavelength of a ramp a hundred wavelengths wide holds too few
+    # coherent pixels in noise
+    w = max(2, int(round(half_width_traces)), int(round(STEEPEST_WINDOW_FORESET_FRACTION * (hi_f - lo_f))))
     tr = np.arange(max(lo_f, cand.steepest - w), min(hi_f, cand.steepest + w) + 1)
     if tr.size < 3:
         return ""
