@@ -22,6 +22,7 @@ from __future__ import annotations
 import numpy as np
 from scipy import ndimage
 
+from .condition import quantile_sample
 from .margins import velocity_at
 from .tracking import TrackedPath
 
@@ -83,10 +84,14 @@ def regularise(z_index, wavelength_traces):
 
 
 def envelope_quality(env, dead):
-    scale = float(np.percentile(env, 99.5)) or 1.0
-    e = np.clip(env / scale, 0.0, 1.0)
-    bg = float(np.median(e[~dead])) if (~dead).any() else 0.0
-    q = np.clip((e - bg) / max(1.0 - bg, 1e-6), 0.0, 1.0)
+    # quantiles from every k-th trace of a large image (as the tracker's,
+    # tracking.py), the quality made in place in one float32 array (memory)
+    scale = float(np.percentile(quantile_sample(env), 99.5)) or 1.0
+    q = np.clip(env / scale, 0.0, 1.0)
+    bg = float(np.median(quantile_sample(q, rows=np.flatnonzero(~dead)))) if (~dead).any() else 0.0
+    np.subtract(q, bg, out=q)
+    np.divide(q, max(1.0 - bg, 1e-6), out=q)
+    np.clip(q, 0.0, 1.0, out=q)
     q[dead] = 0.0
     return q
 
@@ -154,7 +159,14 @@ def face_unconfirmed(cand, z_index, dip_deg, coh, period_samples):
     tr = np.arange(lo, hi + 1)
     nz = dip_deg.shape[1]
     below = np.clip(np.round(z_index[tr])[:, None] + np.arange(1, int(period_samples) + 2)[None, :], 0, nz - 1).astype(int)
-    d = np.abs(dip_deg[tr[:, None], below])
+    sgn = 1.0 if cand.direction == "+" else -1.0
+    # signed basinward dip (noise dipping either way does not confirm a
+    # face), its magnitude only where the face steps by half a period or
+    # more per trace (spatially aliased: the tensor's dip sign is unreliable)
+    aliased = tr.size >= 2 and np.percentile(np.abs(np.gradient(np.asarray(z_index, float))[tr]), 75) >= 0.5 * period_samples
+    d = sgn * dip_deg[tr[:, None], below]
+    if aliased:
+        d = np.abs(d)
     c = coh[tr[:, None], below]
     sure = c >= 0.5
     if sure.sum() < 3:

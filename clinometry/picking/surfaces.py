@@ -273,7 +273,6 @@ def pick_default(
     n = data.shape[0]
     rows = np.arange(n)
     dip_deg = true_dip_deg(section, velocity, dip, dx_m)
-    e_q = envelope_quality(cond.envelope, cond.dead)
     faces = slope_faces(
         dip_deg,
         coh,
@@ -284,9 +283,13 @@ def pick_default(
         max_jump_samples=max_jump,
     )
     face_ranks = set()
+    # the envelope quality is read along the faces only: made when there is
+    # one, released after (memory)
+    e_q = envelope_quality(cond.envelope, cond.dead) if faces else None
     for f in faces:
         face_ranks.add(len(paths))
         paths.append(face_profile(f, paths, e_q, coh, period_samples, rank=len(paths)))
+    del e_q
     zs_list, depth_list, q_list = [], [], []
     for p in paths:
         zs = np.interp(regularise(p.z_index, wavelength / dx_m), np.arange(z_axis.size), z_axis)
