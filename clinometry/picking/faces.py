@@ -83,6 +83,28 @@ def _smooth_blockwise(a, sigma):
         out[s0:s1] = ndimage.gaussian_filter(a[lo:hi], sigma)[s0 - lo : s0 - lo + (s1 - s0)]
     return out
 
+def _drop_small_regions(mask, min_pixels):
+    """``mask`` without its connected regions (``scipy.ndimage.label``) of fewer than ``min_pixels`` pixels.
+
+    The regions are labelled inside the bounding box of the mask only (the
+    same regions, sizes and order as in the whole image; a full-size int32
+    label image is the largest temporary of the slope faces otherwise).
+    None when the mask is empty.
+    """
+    rows = np.flatnonzero(mask.any(axis=1))
+    if rows.size == 0:
+        return None
+    cols = np.flatnonzero(mask.any(axis=0))
+    box = (slice(rows[0], rows[-1] + 1), slice(cols[0], cols[-1] + 1))
+    lab, nlab = ndimage.label(mask[box])
+    sizes = np.bincount(lab.ravel(), minlength=nlab + 1)[1:]  # pixels per label (= ndimage.sum of the mask)
+    keep = np.zeros(nlab + 1, bool)
+    keep[1:] = sizes >= min_pixels
+    out = np.zeros(mask.shape, dtype=bool)
+    out[box] = keep[lab]
+    return out
+
+
 #: coherence above which a dip is trusted (common practice, no source)
 MIN_COHERENCE = 0.5
 #: a face pixel must lie where the envelope, smoothed with a Gaussian of
@@ -168,13 +190,9 @@ def slope_faces(
         mask = (dip >= min_dip_deg) if sgn > 0 else (dip <= -min_dip_deg)
         mask &= strong
         mask = open_rectangle(mask, (3, hz))  # = ndimage.binary_opening, separable
-        lab, nlab = ndimage.label(mask)
-        if nlab == 0:
+        mask = _drop_small_regions(mask, max(4 * hz * min_traces, 1))
+        if mask is None:
             continue
-        sizes = np.bincount(lab.ravel(), minlength=nlab + 1)[1:]  # pixels per label (= ndimage.sum of the mask)
-        keep = np.zeros(nlab + 1, bool)
-        keep[1:] = sizes >= max(4 * hz * min_traces, 1)
-        mask = keep[lab]
         has = mask.any(axis=1)
         if has.sum() < min_traces:
             continue
