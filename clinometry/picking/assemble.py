@@ -208,13 +208,18 @@ def steepest_unconfirmed(cand, z_index, dip_deg, coh, period_samples, half_width
     below = np.clip(below, 0, nz - 1).astype(int)
     d = sgn * dip_deg[tr[:, None], below]
     sure = (coh[tr[:, None], below] >= FACE_COHERENCE) & inside
-    if sure.sum() < 3:
-        return ""
     # where the surface steps by half a period or more per trace the
     # foreset is spatially aliased and the tensor's dip sign is unreliable:
     # only the dip magnitude is used (flat coherent reflections still show
     # a step between layers)
     aliased = np.percentile(np.abs(np.gradient(z_index)[tr]), 75) >= 0.5 * period_samples
+    if sure.sum() < 3:
+        # a surface that steps a period per trace with no coherent
+        # reflection along it is a staircase across layers in noise
+        return (
+            "the surface steps half a period or more per trace at its steepest point with no coherent "
+            "reflection along it (a staircase between reflectors, not a slope)"
+        ) if aliased else ""
     med = float(np.median(np.abs(d[sure]) if aliased else d[sure]))
     if med < FACE_DIP_AGREEMENT * abs(cand.slope_max_deg):
         return (
