@@ -67,6 +67,9 @@ class SurfaceGeometry:
         break / toe on this surface, None when not picked.
     break_reason, toe_reason : str
         Why a pick is missing.
+    source : str
+        How the picker found the surface (``ClinoformPicks.source``:
+        ``"surface"`` or ``"dip_field"``).
     """
 
     horizon_id: int
@@ -79,6 +82,7 @@ class SurfaceGeometry:
     toe: dict | None = None
     break_reason: str = ""
     toe_reason: str = ""
+    source: str = "surface"
 
     def __len__(self) -> int:
         return int(self.trace.size)
@@ -198,7 +202,7 @@ def _dz_depth(section, velocity, trace, z) -> np.ndarray:
     return (hi - lo) / ((z + h) - np.maximum(z - h, 0.0))
 
 
-def _surface(section, velocity, horizon, sign, origin, distance, brk, toe, break_reason, toe_reason):
+def _surface(section, velocity, horizon, sign, origin, distance, brk, toe, break_reason, toe_reason, source="surface"):
     order = np.argsort(sign * distance[horizon.trace], kind="stable")
     trace = horizon.trace[order]
     z = horizon.z[order]
@@ -231,6 +235,7 @@ def _surface(section, velocity, horizon, sign, origin, distance, brk, toe, break
         toe=_pick(toe),
         break_reason=break_reason or ("" if brk is not None else "no shelf break picked"),
         toe_reason=toe_reason or ("" if toe is not None else "no toe of slope picked"),
+        source=source,
     )
 
 
@@ -312,7 +317,8 @@ def margin_geometry(picks, margin, section, velocity=None) -> MarginGeometry:
     clinos = []
     for c in margin.clinoforms:
         clinos.append(_surface(section, velocity, _horizon(c.horizon_id, "clinoform"), sign, origin, distance,
-                               c.shelf_break, c.toe, c.break_reason, c.toe_reason))
+                               c.shelf_break, c.toe, c.break_reason, c.toe_reason,
+                               getattr(c, "source", "surface")))
 
     steps = np.abs(np.diff(distance))
     steps = steps[steps > 0]

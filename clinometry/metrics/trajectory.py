@@ -12,11 +12,14 @@ clinoforms the picker found, oldest to youngest:
 * aggradation_m = depth of the oldest break minus depth of the youngest
   (positive when the break rose: depth is positive down);
 * angle_deg: the elevation angle of the path above the horizontal, positive
-  when rising: ``atan`` of the least-squares slope of break elevation
+  when rising: ``atan`` of the Theil-Sen slope (the median of the slopes
+  between every pair of breaks; Theil 1950, Sen 1968) of break elevation
   (= -depth) against distance in the sense of net movement (basinward, or
   landward when the break backstepped).  With two breaks this is
-  ``atan2(aggradation_m, |progradation_m|)``; with more, the fit keeps one
-  odd break from deciding the class;
+  ``atan2(aggradation_m, |progradation_m|)``; with more, the median keeps
+  a few odd breaks (a clinoform followed onto a side lobe) from deciding
+  the class, which a least-squares line does not (up to 29 % of the breaks
+  may be wild; Sen 1968, from memory);
 * net_angle_deg: ``atan2(aggradation_m, |progradation_m|)`` from the oldest
   and youngest breaks alone;
 * ratio = aggradation_m / progradation_m (A/P);
@@ -35,11 +38,14 @@ slope is the larger of
   their mean, plus the velocity share ``slope * velocity_sigma_fraction`` in
   quadrature; and
 * the *a-posteriori* error from the scatter of the breaks about the line,
-  ``sqrt(sum(r^2) / (n - 2) / Sxx)`` (three or more breaks),
+  ``s * sqrt(n / (n - 2) / Sxx)`` (three or more breaks), where the scatter
+  ``s = 1.4826 * MAD(r)`` is the median absolute deviation of the residuals
+  scaled to one normal sigma (Rousseeuw & Croux 1993, from memory), so wild
+  breaks do not inflate it either,
 
-the usual standard error of a least-squares slope (e.g. Press et al.,
-Numerical Recipes, ch. 15; from memory); taking the larger of the two is
-common practice (no source).  It is reported as ``angle_sigma_deg`` with
+the usual standard error of a fitted slope (e.g. Press et al., Numerical
+Recipes, ch. 15; from memory) with ``sum(r^2) / n`` replaced by the robust
+``s^2``; taking the larger of the two is common practice (no source).  It is reported as ``angle_sigma_deg`` with
 ``angle_p10_deg`` / ``angle_p90_deg`` (normal, +-1.2816 sigma, the same
 P10/P90 as the other uncertainties).
 
@@ -56,8 +62,14 @@ sample over 1.5 km of progradation) is part of the threshold table of
 :mod:`clinometry.classify.thresholds` and can be overridden there; the
 classes by sign follow Helland-Hansen & Martinsen (1996).
 
-Breaks that repeat an earlier one (same trace, depth within half a sample:
-the same surface tracked twice) are counted once.  When all breaks sit on
+Where the picker followed two or more older clinoforms through the dip
+field (:mod:`clinometry.picking.clinoforms`, ``source == "dip_field"``), only
+their breaks are used: the outer profile's break lies on the platform-top
+reflection while a break followed beneath it levels off within about half
+a wavelet below, and mixing the two would tilt the line
+(``break_source`` and ``n_clinoforms_left_out`` say so).  Breaks that
+repeat an earlier one (same trace, depth within half a sample: the same
+surface tracked twice) are counted once.  When all breaks sit on
 one trace, the path is vertical (pure aggradation, +-90 deg) if the depth
 change exceeds 1.2816 * sqrt(2) depth errors, else flat.
 """
@@ -81,6 +93,17 @@ TRAJECTORY_FLAT_DEG = 0.1
 #: mean -/+ 1.2816 sigma (standard normal table, e.g. Abramowitz & Stegun
 #: 1964, table 26.1; from memory)
 P10_P90_SIGMAS = 1.2815515655446004
+#: median absolute deviation -> standard deviation of a normal distribution,
+#: 1 / Phi^-1(3/4) (Rousseeuw & Croux 1993, from memory)
+MAD_TO_SIGMA = 1.482602218505602
+
+
+def _theil_sen(x, y):
+    """Theil-Sen line: median of pairwise slopes and median intercept (Theil 1950; Sen 1968)."""
+    from scipy.stats import theilslopes
+
+    res = theilslopes(y, x)
+    return float(res[0]), float(res[1])
 
 
 def _angle(aggradation, progradation):
@@ -125,11 +148,23 @@ def trajectory_from_breaks(basinward_m, depth_m, *, flat_deg: float = TRAJECTORY
     .. [2] Press, W. H., Teukolsky, S. A., Vetterling, W. T. & Flannery,
        B. P. (2007). Numerical Recipes, 3rd ed., ch. 15 (standard error of a
        fitted straight line; from memory).
+    .. [3] Theil, H. (1950). A rank-invariant method of linear and
+       polynomial regression analysis. Proc. Kon. Ned. Akad. Wetensch. 53.
+       (from memory)
+    .. [4] Sen, P. K. (1968). Estimates of the regression coefficient based
+       on Kendall's tau. J. Am. Stat. Assoc. 63, 1379-1389. (from memory)
+    .. [5] Rousseeuw, P. J. & Croux, C. (1993). Alternatives to the median
+       absolute deviation. J. Am. Stat. Assoc. 88, 1273-1283. (from memory)
 
     Notes
     -----
-    The least-squares line through the breaks is the usual way to give one
-    angle to a set of trajectory points (common practice, no source).
+    A straight line through the breaks is the usual way to give one angle
+    to a set of trajectory points (common practice, no source); it is
+    fitted by Theil-Sen (:func:`scipy.stats.theilslopes`) so that a few
+    wild breaks do not set the class.
+
+    .. versionchanged:: 0.1.0
+       Theil-Sen slope and a MAD-based scatter instead of least squares.
 
     Examples
     --------
@@ -153,13 +188,19 @@ def trajectory_from_breaks(basinward_m, depth_m, *, flat_deg: float = TRAJECTORY
     z = P10_P90_SIGMAS
     if sxx > 0:
         # two breaks (sxx > 0 means prog != 0): the line through them
-        slope = float(np.polyfit(x, -d, 1)[0]) if b.size > 2 else aggr / abs(prog)
+        if b.size > 2:
+            slope, icpt = _theil_sen(x, -d)
+        else:
+            slope, icpt = aggr / abs(prog), 0.0
         angle = float(np.degrees(np.arctan(slope))) if b.size > 2 else net
         var_prior = (depth_sigma_m ** 2 + (slope * position_sigma_m) ** 2) / sxx + (slope * velocity_sigma_fraction) ** 2
         var_post = 0.0
         if b.size > 2:
-            resid = -d - np.polyval(np.polyfit(x, -d, 1), x)
-            var_post = float(np.sum(resid ** 2)) / (b.size - 2) / sxx
+            resid = -d - (icpt + slope * x)
+            # robust scatter: 1.4826 x median absolute residual estimates one
+            # sigma of normal errors (Rousseeuw & Croux 1993, from memory)
+            scat = MAD_TO_SIGMA * float(np.median(np.abs(resid - np.median(resid))))
+            var_post = scat ** 2 * b.size / (b.size - 2) / sxx
         sig_slope = float(np.sqrt(max(var_prior, var_post)))
         sigma = float(np.degrees(sig_slope / (1.0 + slope * slope)))
         p10 = float(np.degrees(np.arctan(slope - z * sig_slope)))
@@ -211,11 +252,29 @@ def trajectory_from_breaks(basinward_m, depth_m, *, flat_deg: float = TRAJECTORY
     }
 
 
+def _trajectory_clinoforms(geometry):
+    """The clinoforms whose breaks define the trajectory, and their source.
+
+    Breaks measured in two different ways are not mixed: where the picker
+    followed two or more older clinoforms through the dip field
+    (``source == "dip_field"``), those alone are used -- a break followed
+    beneath the platform-top reflection levels off about half a wavelet
+    below it, while the outer profile's break lies on the reflection itself,
+    so mixing the two would tilt the fitted line (our finding on the
+    forward-model lines, no source).  Otherwise every clinoform is used.
+    """
+    field = [c for c in geometry.clinoforms if getattr(c, "source", "surface") == "dip_field" and c.shelf_break]
+    if len(field) >= 2:
+        return field, "dip_field"
+    return list(geometry.clinoforms), "surface"
+
+
 def _unique_breaks(geometry):
     """Clinoform breaks oldest first, a break repeating the previous kept one counted once."""
     out, dropped = [], 0
     half = 0.5 * geometry.depth_sample_m
-    for c in geometry.clinoforms:
+    clinoforms, _ = _trajectory_clinoforms(geometry)
+    for c in clinoforms:
         p = c.shelf_break
         if p is None:
             continue
@@ -270,6 +329,9 @@ def trajectory_metrics(geometry, *, flat_deg: float = TRAJECTORY_FLAT_DEG, pick_
         position_sigma_m=pick_sigma_traces * geometry.trace_spacing_m,
         velocity_sigma_fraction=velocity_sigma_fraction if geometry.domain == "twt" else 0.0)
     t["breaks"] = [geometry.pick_point(p) for p in brks]
+    used, source = _trajectory_clinoforms(geometry)
+    t["break_source"] = source
+    t["n_clinoforms_left_out"] = len(geometry.clinoforms) - len(used)
     t["n_repeated_breaks"] = int(dropped)
     # the smallest angle whose sign one depth sample can resolve over this progradation
     if t["progradation_m"] != 0:

@@ -84,7 +84,11 @@ class ClinoformPicks:
     """One clinoform surface of a margin, with its break and toe.
 
     ``shelf_break`` / ``toe`` are ``None`` when they could not be picked;
-    then ``break_reason`` / ``toe_reason`` say why.
+    then ``break_reason`` / ``toe_reason`` say why.  ``source`` says how the
+    surface was found: ``"surface"`` (a tracked reflector or a user
+    horizon) or ``"dip_field"`` (followed through the reflection dip field
+    beneath the outer profile, :mod:`clinometry.picking.clinoforms`); the
+    shelf-break trajectory is fitted through breaks of one source only.
     """
 
     horizon_id: int
@@ -92,6 +96,7 @@ class ClinoformPicks:
     toe: PickPoint | None
     break_reason: str = ""
     toe_reason: str = ""
+    source: str = "surface"
 
 
 @dataclass(frozen=True)

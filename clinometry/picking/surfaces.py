@@ -16,11 +16,15 @@ Steps (each in its own module, explained there):
    where a basin fill onlaps the slope, the slope face is found from the
    coherent dip field and joined to the platform top and basin floor; the
    outer profile of each margin is chosen and inconsistent margins dropped.
-   Its older clinoforms are the other surfaces of the group beneath it, one
-   break each; a surface whose break lies above the outer profile, or that
-   runs within about half a period of a kept surface (a wavelet side lobe
-   of the same reflector), is dropped with a note
-   (:func:`~clinometry.picking.assemble.select_clinoforms`).
+6. :mod:`~clinometry.picking.clinoforms`: the older clinoforms of each
+   margin are followed through the reflection dip field beneath its outer
+   profile (streamlines seeded a quarter wavelength apart on the foresets),
+   each with break and toe by the same curvature rule as the profile.  Only
+   where none is found are they taken from the other tracked surfaces of
+   the group beneath it, one break each; a surface whose break lies above
+   the outer profile, or that runs within about half a period of a kept
+   surface (a wavelet side lobe of the same reflector), is dropped with a
+   note (:func:`~clinometry.picking.assemble.select_clinoforms`).
 
 All lengths derive from the dominant wavelength of the data and the
 velocity, never from trace or sample counts, so the picker behaves the same
@@ -37,6 +41,7 @@ from scipy import ndimage
 
 from ..errors import PickingError
 from ..section import check_section, section_name
+from .clinoforms import foreset_clinoforms
 from .condition import condition
 from .faces import slope_faces
 from .margins import EDGE_CONFIDENCE_FACTOR, profile_candidates, to_depth, velocity_at
@@ -338,6 +343,7 @@ def pick_default(
     next_id = 0
     chosen = []
     agreements = {}
+    streamline_horizons = {}
     for g in groups:
         span = (min(min(m.leg) for m in g), max(max(m.leg) for m in g))
         steep = [m.steepest for m in g]
@@ -380,7 +386,28 @@ def pick_default(
         below = [m for m in g if float(np.mean(paths[m.path_rank].z_index[span_p])) >= prof_z - 1.0]
         below = select_clinoforms(profile, below, paths, period_samples, notes)
         ordered = sorted(below, key=lambda m: -float(np.mean(depth_list[m.path_rank][core])))
+        # older clinoforms followed through the dip field beneath the outer
+        # profile (clinoforms.py); the tracked surfaces only when none is found
+        older, c_notes = foreset_clinoforms(
+            section, velocity, profile, paths[profile.path_rank].z_index, dip=dip, dip_deg=dip_deg, coh=coh,
+            period_samples=period_samples, wavelength_m=wavelength, smoothing_m=smoothing, min_relief_m=min_relief,
+            max_dip_samples=max_jump,
+        )
+        notes.extend(c_notes)
         clinos = []
+        if older:
+            ordered = [profile]
+            for f in older:
+                hid = next_id
+                next_id += 1
+                streamline_horizons[hid] = f
+                zs_f = np.interp(f.z_index, np.arange(z_axis.size), z_axis)
+                m = f.candidate
+                clinos.append(ClinoformPicks(
+                    hid,
+                    PickPoint(int(m.shelf_break), float(zs_f[m.shelf_break]), float(f.quality[m.shelf_break])),
+                    PickPoint(int(m.toe), float(zs_f[m.toe]), float(f.quality[m.toe])) if m.toe is not None else None,
+                    m.break_reason, m.toe_reason, source="dip_field"))
         for m in ordered:
             if m.path_rank not in used_ranks:
                 used_ranks[m.path_rank] = next_id
@@ -428,6 +455,8 @@ def pick_default(
 
     # horizons of the surfaces used by margins (whole path), then reflector pieces
     profile_ids = {m.profile_id for m in margins}
+    for hid, f in streamline_horizons.items():
+        horizons.append(Horizon(hid, "clinoform", rows, np.interp(f.z_index, np.arange(z_axis.size), z_axis), f.quality, "unknown"))
     for rank, hid in sorted(used_ranks.items(), key=lambda kv: kv[1]):
         if not any(c.horizon_id == hid for mg in margins for c in mg.clinoforms):
             continue

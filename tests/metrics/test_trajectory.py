@@ -70,19 +70,34 @@ def test_trajectory_missing_with_fewer_than_two_breaks(build_margin, planar):
     assert "1 clinoform break(s) picked out of 2" in out["missing"]["trajectory"]
 
 
-def test_least_squares_angle_through_several_breaks():
+def test_theil_sen_angle_through_several_breaks_hand_computed():
     # by hand: b = 0, 1000, 2000, 3000 m; elevation -d = -300, -290, -295, -280 m;
-    # least-squares slope = sum(db * de) / sum(db^2) = 27500 / 5e6 = 0.0055 -> 0.315124 deg
-    # (normal equations of a straight-line fit, common practice, no source)
+    # the six pairwise slopes are 0.01, 0.0025, 0.02/3, -0.005, 0.005, 0.015; their median
+    # (0.005 + 0.02/3) / 2 = 0.0058333 -> atan = 0.3342236 deg (Theil 1950; Sen 1968, from memory)
     t = trajectory_from_breaks([0.0, 1000.0, 2000.0, 3000.0], [300.0, 290.0, 295.0, 280.0])
-    assert_allclose(t["angle_deg"], 0.3151236, rtol=1e-6)
+    assert_allclose(t["angle_deg"], np.degrees(np.arctan((0.005 + 0.02 / 3) / 2)), rtol=1e-9)
+    assert_allclose(t["angle_deg"], 0.3342216, rtol=1e-6)
     # net path: 20 m over 3000 m -> atan(20 / 3000) = 0.381966 deg
     assert_allclose(t["net_angle_deg"], 0.3819660, rtol=1e-6)
     assert t["class"] == "ascending"
     # backstepping breaks are fitted in their own (landward) sense: still rising
     back = trajectory_from_breaks([3000.0, 2000.0, 1000.0, 0.0], [300.0, 290.0, 295.0, 280.0])
-    assert_allclose(back["angle_deg"], 0.3151236, rtol=1e-6)
+    assert_allclose(back["angle_deg"], 0.3342216, rtol=1e-6)
     assert back["backstepping"] is True
+
+
+def test_one_wild_break_does_not_decide_the_class():
+    # seven breaks on a line rising 2 deg basinward, the youngest 60 m too deep (a break
+    # followed onto a side lobe): the median of pairwise slopes stays on the line, while a
+    # least-squares line (numpy.polyfit as the reference fitter) is pulled to a fall
+    b = np.arange(7) * 100.0
+    d = 300.0 - b * np.tan(np.radians(2.0))
+    d[-1] += 60.0
+    t = trajectory_from_breaks(b, d, depth_sigma_m=1.0)
+    assert np.polyfit(b, -d, 1)[0] < 0
+    # 15 of the 21 pairwise slopes are exactly tan(2 deg): the median is that slope
+    assert_allclose(t["angle_deg"], 2.0, rtol=1e-9)
+    assert t["class"] == "ascending"
 
 
 def test_flat_band_widens_to_the_pick_uncertainty_hand_computed():
@@ -106,20 +121,27 @@ def test_flat_band_widens_to_the_pick_uncertainty_hand_computed():
 
 
 def test_scatter_of_many_breaks_sets_the_band():
-    # five breaks on a 1 deg rising line with +-6 m alternating scatter: the a-posteriori
-    # error from the residuals exceeds the 1 m a-priori error and makes the class flat
-    b = np.array([0.0, 100.0, 200.0, 300.0, 400.0])
-    d = 300.0 - b * np.tan(np.radians(1.0)) + np.array([6.0, -6.0, 6.0, -6.0, 6.0])
+    # nine breaks on a line rising 0.5 deg basinward with 8 m of seeded normal scatter: the
+    # a-posteriori error from the residuals exceeds the 1 m a-priori error and makes the class flat
+    rng = np.random.default_rng(0)
+    b = np.arange(9) * 100.0
+    d = 300.0 - b * np.tan(np.radians(0.5)) + rng.normal(0.0, 8.0, 9)
     t = trajectory_from_breaks(b, d, depth_sigma_m=1.0)
-    # residual standard error by hand: polyfit residuals r, sqrt(sum r^2 / (n - 2) / Sxx)
-    x = b
-    fit = np.polyfit(x, -d, 1)
-    r = -d - np.polyval(fit, x)
-    se = np.sqrt(np.sum(r ** 2) / 3 / np.sum((x - x.mean()) ** 2))
-    assert_allclose(t["angle_sigma_deg"], np.degrees(se / (1 + fit[0] ** 2)), rtol=1e-9)
+    # by hand: Theil-Sen slope (median of pairwise slopes, intercept median(y) - slope *
+    # median(x), as scipy.stats.theilslopes), residuals r, robust sigma 1.4826 * MAD(r)
+    # (Rousseeuw & Croux 1993, from memory), standard error sigma * sqrt(n / (n - 2) / Sxx)
+    x, y = b, -d
+    i, j = np.triu_indices(9, 1)
+    slope = np.median((y[j] - y[i]) / (x[j] - x[i]))
+    r = y - (np.median(y) - slope * np.median(x)) - slope * x
+    sig = 1.482602218505602 * np.median(np.abs(r - np.median(r)))
+    se = sig * np.sqrt(9 / 7 / np.sum((x - x.mean()) ** 2))
+    assert_allclose(t["angle_deg"], np.degrees(np.arctan(slope)), rtol=1e-9)
+    assert_allclose(t["angle_sigma_deg"], np.degrees(se / (1 + slope ** 2)), rtol=1e-9)
+    assert_allclose(t["flat_band_deg"], 1.2815515655 * t["angle_sigma_deg"], rtol=1e-9)
     assert t["class"] == "flat"
     # without the scatter the same line is ascending
-    assert trajectory_from_breaks(b, 300.0 - b * np.tan(np.radians(1.0)), depth_sigma_m=1.0)["class"] == "ascending"
+    assert trajectory_from_breaks(b, 300.0 - b * np.tan(np.radians(0.5)), depth_sigma_m=1.0)["class"] == "ascending"
 
 
 def test_breaks_on_one_trace_are_vertical_or_flat():
