@@ -137,8 +137,11 @@ def _pad_dip_terms(dip, dip_cost, k):
     return tuple(out)
 
 
-def _min_cost_path(c, k, jump_cost, padded, acc=None):
+def _min_cost_path(c, k, jump_cost, padded, acc=None, *, one_minus=False):
     """:func:`min_cost_path` on float32 costs; ``padded`` from :func:`_pad_dip_terms` or None.
+
+    With ``one_minus`` the costs are ``1 - c`` (float32), made for a block
+    of traces at a time instead of as a full-size array.
 
     The forward pass keeps only the running minimum of each cell (a
     reduction over the window axis, vectorised over z); the step taken is
@@ -157,24 +160,33 @@ def _min_cost_path(c, k, jump_cost, padded, acc=None):
         acc = np.empty((n, m + 2 * k), dtype=np.float32)
     acc.fill(np.inf)
     acc_in = acc[:, k : k + m]
-    acc_in[0] = c[0]
+    one = np.float32(1.0)
+    if one_minus:
+        np.subtract(one, c[0], out=acc_in[0])
+    else:
+        acc_in[0] = c[0]
     win = sliding_window_view(acc, m, axis=1)  # (n, w, m): win[i, j, z] = acc of cell z + j - k
     tot = np.empty((w, m), dtype=np.float32)
     pen_c = pen[:, None]
     best = np.empty(m, dtype=np.float32)
     minimum = np.minimum.reduce
-    block = n
+    # the dip term does not depend on the accumulated cost: it is made for
+    # a block of traces at once, then added trace by trace
+    block = max(1, min(n - 1, _BLOCK_CELLS // max(w * m, 1)))
+    if one_minus:
+        cbuf = np.empty((block, m), dtype=np.float32)
     if padded is not None:
         pdip, pw = padded
         win_dip = sliding_window_view(pdip, m, axis=1)  # (n, w, m)
         win_w = sliding_window_view(pw, m, axis=1)
-        # the dip term does not depend on the accumulated cost: it is made for
-        # a block of traces at once, then added trace by trace
-        block = max(1, min(n - 1, _BLOCK_CELLS // max(w * m, 1)))
         term = np.empty((block, w, m), dtype=np.float32)
         steps_c = steps[None, :, None]
     for i0 in range(1, n, block):
         i1 = min(n, i0 + block)
+        if one_minus:
+            cb = np.subtract(one, c[i0:i1], out=cbuf[: i1 - i0])
+        else:
+            cb = c[i0:i1]
         if padded is not None:
             t = term[: i1 - i0]
             np.subtract(steps_c, win_dip[i0 - 1 : i1 - 1], out=t)
@@ -185,7 +197,7 @@ def _min_cost_path(c, k, jump_cost, padded, acc=None):
             if padded is not None:
                 np.add(tot, term[i - i0], out=tot)
             minimum(tot, axis=0, out=best)
-            np.add(c[i], best, out=acc_in[i])
+            np.add(cb[i - i0], best, out=acc_in[i])
     # back-track: re-evaluate the (2k+1) candidate steps along the path only
     path = np.empty(n, dtype=np.int64)
     z = int(np.argmin(acc_in[-1]))
@@ -320,26 +332,33 @@ def track_paths(
     dead = np.zeros(n, bool) if dead is None else np.asarray(dead, bool)
     offsets = np.arange(-half, half + 1)
     row_of = np.broadcast_to(np.arange(n)[:, None], (n, offsets.size))
-    dip_c = dip_w = None
+    kk = int(max(0, min(k, m - 1)))
+    padded = None
     if dip is not None and coherence is not None:
-        def pool(a):
-            return _pool_cells(np.asarray(a, np.float32), factor, "mean", "edge")
-
-        dip_c = np.clip(pool(dip) / factor, -k, k)
-        dip_w = pool(coherence) ** 2 * dip_cost_per_period * factor / max(period_samples, 1.0)
+        # pooled dip (cells per cell step, clipped to the allowed jump) and
+        # dip cost, each made in place in one pooled array and written into
+        # its padded layout, used by every path (no further copies)
+        padded = tuple(np.zeros((n, m + 2 * kk), dtype=np.float32) for _ in range(2))
+        p = _pool_cells(np.asarray(dip, np.float32), factor, "mean", "edge")
+        np.divide(p, factor, out=p)
+        np.clip(p, -k, k, out=p)
+        padded[0][:, kk : kk + m] = p
+        p = _pool_cells(np.asarray(coherence, np.float32), factor, "mean", "edge")
+        np.square(p, out=p)
+        np.multiply(p, dip_cost_per_period, out=p)
+        np.multiply(p, factor, out=p)
+        np.divide(p, max(period_samples, 1.0), out=p)
+        padded[1][:, kk : kk + m] = p
+        del p
     # background level of the image: reflections must stand above it to
     # count (noise at low SNR fills the whole image with envelope)
     background = float(np.median(quantile_sample(coarse, rows=np.flatnonzero(~dead)))) if (~dead).any() else 0.0
-    # one float32 cost layout and one padded copy of the dip terms for every path
-    kk = int(max(0, min(k, m - 1)))
-    padded = _pad_dip_terms(dip_c, dip_w, kk) if dip_c is not None else None
-    del dip_c, dip_w  # only the padded copies are used from here on
-    cost = np.empty(coarse.shape, dtype=np.float32)
+    # one accumulated-cost workspace for every path; the cell costs 1 - coarse
+    # are made block by block inside the search
     workspace = np.empty((n, m + 2 * kk), dtype=np.float32)
     out = []
     for rank in range(int(n_paths)):
-        np.subtract(np.float32(1.0), coarse, out=cost)
-        cpath = _min_cost_path(cost, kk, float(jump_cost), padded, workspace)
+        cpath = _min_cost_path(coarse, kk, float(jump_cost), padded, workspace, one_minus=True)
         q = coarse[np.arange(n), cpath].astype(np.float64)
         q = np.clip((q - background) / max(1.0 - background, 1e-6), 0.0, 1.0)
         q[dead] = 0.0
