@@ -145,12 +145,28 @@ class ForesetClinoform:
     candidate: object
 
 
+def _reach(zr, sigma_z, nz):
+    """z slice of the cells within reach of z index ``zr`` of a Gaussian of ``sigma_z``
+    (scipy.ndimage's radius, ``int(4 sigma + 0.5)``), and the position of ``zr`` in it."""
+    r = int(4.0 * float(sigma_z) + 0.5)
+    z0 = max(0, zr - r)
+    return slice(z0, min(nz, zr + r + 1)), zr - z0
+
+
 def _weighted_dip(dip, coh, sigma, max_dip):
     """Coherence-weighted Gaussian average of the dip (samples per trace), within +-max_dip."""
-    w = np.where(coh >= MIN_COHERENCE, coh, 0.0).astype(np.float32)
-    num = ndimage.gaussian_filter(np.clip(dip, -max_dip, max_dip) * w, sigma, mode="nearest")
-    den = ndimage.gaussian_filter(w, sigma, mode="nearest")
-    return np.where(den > 1e-3, num / np.maximum(den, 1e-3), 0.0).astype(np.float32)
+    # made in place (memory; the same numbers as
+    # np.where(den > 1e-3, num / np.maximum(den, 1e-3), 0.0))
+    w = np.where(coh >= MIN_COHERENCE, coh, 0.0).astype(np.float32, copy=False)
+    num = np.clip(dip, -max_dip, max_dip)  # float64 when max_dip is a numpy float64
+    np.multiply(num, w, out=num)
+    ndimage.gaussian_filter(num, sigma, mode="nearest", output=num)
+    den = ndimage.gaussian_filter(w, sigma, mode="nearest", output=w)
+    keep = den > 1e-3
+    np.maximum(den, 1e-3, out=den)
+    np.divide(num, den, out=num)
+    num[~keep] = 0.0
+    return num.astype(np.float32, copy=False)
 
 
 def streamlines(dip, seeds_trace, seeds_z, *, floor=None):
@@ -260,8 +276,11 @@ def foreset_clinoforms(section, velocity, profile, profile_z_index, *, dip, dip_
     sigma = (max(0.5, DIP_SMOOTHING_WAVELENGTHS * wavelength_m / dx), max(0.5, DIP_SMOOTHING_WAVELENGTHS * period_samples))
     # the row is judged on the coherence-weighted average dip, so noise
     # between the foreset reflections does not end the foreset region
-    row_dip = sgn * _weighted_dip(dip_deg, coh, sigma, 90.0)[:, zr]
-    row_coh = ndimage.gaussian_filter(coh, sigma, mode="nearest")[:, zr]
+    # (only row zr of the smoothed images is needed: they are smoothed on the
+    # band of rows within the Gaussian's reach of it, the same numbers)
+    band, j = _reach(zr, sigma[1], nz)
+    row_dip = sgn * _weighted_dip(dip_deg[:, band], coh[:, band], sigma, 90.0)[:, j]
+    row_coh = ndimage.gaussian_filter(coh[:, band], sigma, mode="nearest")[:, j]
     row_ok = (row_dip >= min_dip) & (row_dip <= MAX_DIP_RATIO * slope_deg) & (row_coh >= FORESET_COHERENCE)
     # the walk ends at the landward end of the profile's leg (the platform
     # crest or the line end): beyond it lies another margin
