@@ -295,6 +295,8 @@ def pick_default(
         face_ranks.add(len(paths))
         paths.append(face_profile(f, paths, e_q, coh, period_samples, rank=len(paths)))
     del e_q
+    # nor is the envelope used after the faces: released (memory)
+    cond = dataclasses.replace(cond, envelope=None)
     zs_list, depth_list, q_list = [], [], []
     for p in paths:
         zs = np.interp(regularise(p.z_index, wavelength / dx_m), np.arange(z_axis.size), z_axis)
