@@ -1,0 +1,92 @@
+"""Margin candidates on depth profiles and the checks that reject false ones.
+
+Profiles here are analytic (piecewise-linear gradients, integrated with the
+trapezoid rule), so the bends are known exactly: the curvature maximum of a
+bend whose gradient changes linearly over a stretch lies at the centre of
+that stretch, by symmetry.
+"""
+
+import numpy as np
+import pytest
+
+from clinometry.picking.assemble import face_unconfirmed, steepest_unconfirmed
+from clinometry.picking.margins import MarginCandidate, profile_candidates
+
+DX_M = 25.0
+RAMP_DEG = 0.8
+SMOOTHING_M = 190.0  # one wavelength of a 15 Hz wavelet at about 2850 m/s
+MIN_RELIEF_M = 95.0  # half that wavelength, the picker's default minimum relief
+
+
+def _profile(x, knots_m, weights):
+    """Depth (m) of a surface whose basinward gradient follows ``tan(RAMP_DEG) * interp(x, knots, weights)``."""
+    g = np.tan(np.radians(RAMP_DEG))
+    grad = sum(g * np.interp(x, k, w) for k, w in zip(knots_m, weights))
+    return 200.0 + np.concatenate([[0.0], np.cumsum(0.5 * (grad[1:] + grad[:-1]) * np.diff(x))])
+
+
+def test_ramp_in_two_gentle_steps_gets_its_outermost_bends():
+    # a ramp that deepens in two gentle steps with a flat terrace between
+    # them: each step (56 m) is below the minimum relief, the whole ramp
+    # (112 m) above it; the landward bend is rounded over 1000-3000 m
+    # (centre 2000 m), the basinward one over 12000-14000 m (centre 13000 m);
+    # the terrace bends at 6000 and 9000 m are sharper than either
+    x = np.arange(640) * DX_M
+    d = _profile(x, ([1000, 3000, 6000, 6000.1], [9000, 9000.1, 12000, 14000]), ([0, 1, 1, 0], [0, 1, 1, 0]))
+    assert d[-1] - d[0] == pytest.approx(2 * 4000.0 * np.tan(np.radians(RAMP_DEG)))
+    cands = profile_candidates(x, d, np.ones(x.size), path_rank=0, smoothing_m=SMOOTHING_M, min_relief_m=MIN_RELIEF_M)
+    assert [c.direction for c in cands] == ["+"]
+    c = cands[0]
+    # within one smoothing length of the bend centres
+    assert abs(x[c.shelf_break] - 2000.0) <= SMOOTHING_M
+    assert abs(x[c.toe] - 13000.0) <= SMOOTHING_M
+    assert c.relief_m >= MIN_RELIEF_M
+
+
+def test_one_gentle_step_below_the_minimum_relief_is_not_a_margin():
+    x = np.arange(640) * DX_M
+    d = _profile(x, ([1000, 3000, 6000, 6000.1],), ([0, 1, 1, 0],))
+    assert d[-1] - d[0] < MIN_RELIEF_M
+    assert profile_candidates(x, d, np.ones(x.size), path_rank=0, smoothing_m=SMOOTHING_M, min_relief_m=MIN_RELIEF_M) == []
+
+
+def _candidate(direction="+", brk=20, steepest=25, toe=30, slope_deg=20.0):
+    return MarginCandidate(
+        path_rank=0, direction=direction, leg=(0, 59), steepest=steepest, shelf_break=brk, toe=toe,
+        break_reason="", toe_reason="", relief_m=200.0, slope_max_deg=slope_deg, top_gradient_deg=0.0,
+        foreset_quality=0.5, confidence=0.9, mean_depth_m=300.0,
+    )
+
+
+def test_staircase_of_one_period_per_trace_without_coherent_reflections_is_rejected():
+    # a tracked surface stepping one period (20 samples) per trace from
+    # trace 20 to 30 through incoherent noise (coherence 0.1 everywhere)
+    period = 20.0
+    z = np.clip(50.0 + period * (np.arange(60) - 20), 50.0, 250.0)
+    dip = np.zeros((60, 400), dtype=np.float32)
+    coh = np.full((60, 400), 0.1, dtype=np.float32)
+    why = steepest_unconfirmed(_candidate(), z, dip, coh, period, 4.0)
+    assert "staircase" in why
+
+
+def test_gentle_surface_without_coherent_reflections_is_not_judged():
+    # the same incoherent image under a surface stepping a tenth of a
+    # period per trace: no evidence either way, no rejection
+    period = 20.0
+    z = 50.0 + 2.0 * np.clip(np.arange(60) - 20, 0, 10)
+    dip = np.zeros((60, 400), dtype=np.float32)
+    coh = np.full((60, 400), 0.1, dtype=np.float32)
+    assert steepest_unconfirmed(_candidate(), z, dip, coh, period, 4.0) == ""
+
+
+@pytest.mark.parametrize("dip_below_deg, confirmed", [(18.0, True), (-18.0, False), (0.0, False)])
+def test_face_is_confirmed_only_by_reflections_dipping_basinward_with_it(dip_below_deg, confirmed):
+    # a face facing "+" stepping 2 samples per trace (not aliased for a
+    # 20-sample period) over coherent reflections dipping the given way;
+    # noise dipping landward as steeply does not confirm it
+    period = 20.0
+    z = 50.0 + 2.0 * np.clip(np.arange(60) - 20, 0, 10)
+    dip = np.full((60, 400), dip_below_deg, dtype=np.float32)
+    coh = np.full((60, 400), 0.9, dtype=np.float32)
+    why = face_unconfirmed(_candidate(), z, dip, coh, period)
+    assert (why == "") == confirmed, why
