@@ -211,17 +211,19 @@ def _min_cost_path(c, k, jump_cost, padded, acc=None, *, one_minus=False):
     return path
 
 
-def _pool_cells(a, factor, how, pad_mode):
+def _pool_cells(a, factor, how, pad_mode, out=None):
     """Reduce ``factor`` z samples to one cell (``np.pad`` to a whole cell, reshape, reduce) without a padded copy.
 
     The whole cells are reduced through a reshaped view; only the last,
     incomplete cell is padded (with ``pad_mode``), so the values are those
-    of padding the whole array.
+    of padding the whole array.  ``out``, shape (n, m) and the dtype of
+    ``a``, may be given (e.g. a view into a padded layout).
     """
     n, nz = a.shape
     m = -(-nz // factor)
     full = (nz // factor) * factor
-    out = np.empty((n, m), dtype=a.dtype)
+    if out is None:
+        out = np.empty((n, m), dtype=a.dtype)
     reduce = getattr(np, how)
     if full and factor >= 8:  # numpy sums 8 or more values pairwise: let it
         reduce(a[:, :full].reshape(n, full // factor, factor), axis=2, out=out[:, : full // factor])
@@ -339,16 +341,14 @@ def track_paths(
         # dip cost, each made in place in one pooled array and written into
         # its padded layout, used by every path (no further copies)
         padded = tuple(np.zeros((n, m + 2 * kk), dtype=np.float32) for _ in range(2))
-        p = _pool_cells(np.asarray(dip, np.float32), factor, "mean", "edge")
+        p = _pool_cells(np.asarray(dip, np.float32), factor, "mean", "edge", out=padded[0][:, kk : kk + m])
         np.divide(p, factor, out=p)
         np.clip(p, -k, k, out=p)
-        padded[0][:, kk : kk + m] = p
-        p = _pool_cells(np.asarray(coherence, np.float32), factor, "mean", "edge")
+        p = _pool_cells(np.asarray(coherence, np.float32), factor, "mean", "edge", out=padded[1][:, kk : kk + m])
         np.square(p, out=p)
         np.multiply(p, dip_cost_per_period, out=p)
         np.multiply(p, factor, out=p)
         np.divide(p, max(period_samples, 1.0), out=p)
-        padded[1][:, kk : kk + m] = p
         del p
     # background level of the image: reflections must stand above it to
     # count (noise at low SNR fills the whole image with envelope)

@@ -63,3 +63,18 @@ def test_cell_pooling_equals_padding_the_whole_array(factor):
     pad = ((0, 0), (0, m * factor - 53))
     np.testing.assert_array_equal(_pool_cells(a, factor, "max", "constant"), np.pad(a, pad).reshape(7, m, factor).max(axis=2))
     np.testing.assert_array_equal(_pool_cells(a, factor, "mean", "edge"), np.pad(a, pad, mode="edge").reshape(7, m, factor).mean(axis=2))
+
+
+@pytest.mark.parametrize("nz, factor", [(100, 3), (101, 8), (97, 9), (10, 1)])
+@pytest.mark.parametrize("how, pad", [("mean", "edge"), ("max", "constant")])
+def test_pooling_into_a_view_of_a_padded_layout_equals_numpy_pad_and_reduce(nz, factor, how, pad):
+    # reference: numpy.pad to whole cells, reshape and reduce (general-purpose numpy)
+    from clinometry.picking.tracking import _pool_cells
+
+    a = np.random.default_rng(31).random((7, nz)).astype(np.float32)
+    m = -(-nz // factor)
+    expected = getattr(np, how)(np.pad(a, ((0, 0), (0, m * factor - nz)), mode=pad).reshape(7, m, factor), axis=2)
+    big = np.zeros((7, m + 6), np.float32)
+    _pool_cells(a, factor, how, pad, out=big[:, 3 : 3 + m])
+    np.testing.assert_array_equal(big[:, 3 : 3 + m], expected)
+    np.testing.assert_array_equal(big[:, :3], 0.0)
