@@ -52,7 +52,7 @@ def _trajectory(scenario, **kw):
     [
         ("rimmed_shelf", {"noise": False}),
         ("rimmed_shelf", {"snr": 3.0}),
-        ("level_shelf", {"snr": 3.0}),
+        ("level_shelf", {"noise": False}),
         ("falling_shelf", {"noise": False}),
         ("falling_shelf", {"snr": 6.0}),
         ("steep_margin", {"noise": False}),
