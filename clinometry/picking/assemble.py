@@ -54,6 +54,10 @@ FACE_DIP_AGREEMENT = 0.4
 #: the foreset width (break to toe) on either side of it, at least one
 #: smoothing length (our choice, no source)
 STEEPEST_WINDOW_FORESET_FRACTION = 0.25
+#: lateral Gaussian sigma (traces) of the structure tensor of
+#: :func:`clinometry.picking.orientation.reflector_orientation` as called by
+#: the default picker (sigma_trace=1.5)
+TENSOR_SIGMA_TRACES = 1.5
 #: structure-tensor coherence above which a dip is trusted in these tests
 #: (common practice, no source)
 FACE_COHERENCE = 0.5
@@ -242,6 +246,10 @@ def cuts_layering(cand, z_index, dip, coh, period_samples):
     step = np.gradient(z_index)[fs]
     if np.percentile(np.abs(step), 75) >= 0.5 * period_samples:
         return ""
+    # compared like with like: the surface's step smoothed over the lateral
+    # window of the structure tensor (trace-to-trace pick jitter in noise
+    # is not a jump between reflectors)
+    step = ndimage.gaussian_filter1d(np.gradient(np.asarray(z_index, float)), TENSOR_SIGMA_TRACES, mode="nearest")[fs]
     zi = np.clip(np.round(z_index[fs]).astype(int), 0, dip.shape[1] - 1)
     d = dip[fs, zi]
     c = coh[fs, zi]
