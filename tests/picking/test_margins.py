@@ -90,3 +90,30 @@ def test_face_is_confirmed_only_by_reflections_dipping_basinward_with_it(dip_bel
     coh = np.full((60, 400), 0.9, dtype=np.float32)
     why = face_unconfirmed(_candidate(), z, dip, coh, period)
     assert (why == "") == confirmed, why
+
+
+def test_pick_jitter_along_a_dipping_reflection_is_not_a_jump_between_reflectors():
+    # a surface dipping 2 samples per trace picked with up to 4 samples of
+    # random jitter, over coherent reflections dipping 2 samples per trace:
+    # the smoothed step follows the dip (cuts_layering compares the two
+    # over the tensor's lateral window)
+    from clinometry.picking.assemble import cuts_layering
+
+    period = 20.0
+    t = np.arange(60)
+    jitter = np.random.default_rng(1).uniform(-4.0, 4.0, t.size)
+    z = 50.0 + 2.0 * np.clip(t - 15, 0, 30) + jitter * ((t >= 15) & (t <= 45))
+    dip = np.full((60, 400), 2.0, dtype=np.float32)
+    coh = np.full((60, 400), 0.9, dtype=np.float32)
+    assert cuts_layering(_candidate(brk=15, steepest=30, toe=45), z, dip, coh, period) == ""
+
+
+def test_surface_stepping_across_flat_coherent_layers_cuts_the_layering():
+    from clinometry.picking.assemble import cuts_layering
+
+    period = 20.0
+    t = np.arange(60)
+    z = 50.0 + 4.0 * np.clip(t - 15, 0, 30)
+    dip = np.zeros((60, 400), dtype=np.float32)  # flat reflectors
+    coh = np.full((60, 400), 0.9, dtype=np.float32)
+    assert "cuts across" in cuts_layering(_candidate(brk=15, steepest=30, toe=45), z, dip, coh, period)
