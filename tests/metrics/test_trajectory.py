@@ -1,5 +1,7 @@
 """Shelf-break trajectory on hand-computed break sets (Helland-Hansen & Martinsen 1996)."""
 
+import dataclasses
+
 import numpy as np
 import pytest
 from numpy.testing import assert_allclose
@@ -60,6 +62,28 @@ def test_trajectory_metrics_from_clinoform_breaks(build_margin, planar):
         assert t["class"] == "ascending"
         assert t["progradation_m"] == pytest.approx(500.0)
         assert [p["depth_m"] for p in t["breaks"]] == pytest.approx([300.0, 290.0, 280.0])
+
+
+def test_dip_field_breaks_are_not_mixed_with_the_profile_break(build_margin, planar):
+    # two older clinoforms followed through the dip field (breaks at 500 and 750 m, 300 and 290 m
+    # deep) and the outer profile's break on the platform-top reflection 40 m shallower at 1000 m:
+    # only the two dip-field breaks define the line, 10 m rise over 250 m -> atan(0.04) = 2.2906 deg
+    # (with the profile break, the median of the pairwise slopes 0.04, 0.1, 0.16 gives atan(0.1) = 5.71 deg)
+    clinos = [(planar(20.0, top_m=300.0, x_break=500.0, x_toe=900.0), 20, 36),
+              (planar(20.0, top_m=290.0, x_break=750.0, x_toe=1150.0), 30, 46),
+              (planar(20.0, top_m=250.0, x_break=1000.0, x_toe=1400.0), 40, 56)]
+    picks, section = build_margin(planar(20.0, top_m=250.0), clinoforms=clinos)
+    m = picks.margins[0]
+    tagged = tuple(dataclasses.replace(c, source="dip_field") for c in m.clinoforms[:2]) + m.clinoforms[2:]
+    picks = dataclasses.replace(picks, margins=(dataclasses.replace(m, clinoforms=tagged),))
+    t = trajectory_metrics(margin_geometry(picks, picks.margins[0], section))["trajectory"]
+    assert_allclose(t["angle_deg"], np.degrees(np.arctan(10.0 / 250.0)), rtol=1e-9)
+    assert (t["n_breaks"], t["break_source"], t["n_clinoforms_left_out"]) == (2, "dip_field", 1)
+    # untagged (all from tracked surfaces) the same three breaks are used together
+    plain, section = build_margin(planar(20.0, top_m=250.0), clinoforms=clinos)
+    t_all = trajectory_metrics(margin_geometry(plain, plain.margins[0], section))["trajectory"]
+    assert (t_all["n_breaks"], t_all["break_source"], t_all["n_clinoforms_left_out"]) == (3, "surface", 0)
+    assert_allclose(t_all["angle_deg"], np.degrees(np.arctan(0.1)), rtol=1e-9)
 
 
 def test_trajectory_missing_with_fewer_than_two_breaks(build_margin, planar):
