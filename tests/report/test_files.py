@@ -138,3 +138,37 @@ def test_margins_parquet_matches_csv_rows(tmp_path):
     np.testing.assert_allclose(table.column("relief_m").to_pylist()[0], 450.0)
     assert table.column("relief_m").to_pylist()[1] is None
     assert table.column("family").to_pylist() == ["rimmed_shelf", None]
+
+
+def test_csv_text_is_the_text_of_the_standard_csv_writer():
+    # reference: Python's csv module (minimal quoting, "\n" line ends), row
+    # by row, as csv_text wrote before it formatted column by column
+    from clinometry.report.files import _cell, csv_text
+
+    def reference(rows, columns):
+        buf = io.StringIO()
+        w = csv.writer(buf, lineterminator="\n")
+        w.writerow(columns)
+        for r in rows:
+            w.writerow([_cell(r.get(c)) for c in columns])
+        return buf.getvalue()
+
+    rng = np.random.default_rng(0)
+    horizons = [
+        {"horizon_id": i // 50, "role": "reflector", "trace": i, "distance_m": round(float(d), 3),
+         "z": float(z), "quality": None if i % 7 == 0 else 0.25}
+        for i, (d, z) in enumerate(zip(rng.uniform(0, 1e4, 200), rng.normal(500, 100, 200)))
+    ]
+    cols = ("horizon_id", "role", "trace", "distance_m", "z", "quality", "absent")
+    cases = [
+        (horizons, cols),
+        ([], ("a", "b")),
+        ([{"a": None}], ("a",)),  # a sole empty cell is quoted by the csv writer
+        ([{"a": "x,y", "b": 1.5}], ("a", "b")),
+        ([{"a": 'say "hi"', "b": None}, {"a": True, "b": float("nan")}], ("a", "b")),
+        ([{"a": "two\nlines", "b": 1e16}], ("a", "b")),
+        ([{"a": 1, "b": "s"}, {"a": "t", "b": 2}], ("a", "b")),
+        ([{"a": 1}], ("a,b", "c")),
+    ]
+    for rows, columns in cases:
+        assert csv_text(rows, columns) == reference(rows, columns)
