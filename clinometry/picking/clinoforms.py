@@ -158,7 +158,9 @@ def _weighted_dip(dip, coh, sigma, max_dip):
     # made in place (memory; the same numbers as
     # np.where(den > 1e-3, num / np.maximum(den, 1e-3), 0.0))
     w = np.where(coh >= MIN_COHERENCE, coh, 0.0).astype(np.float32, copy=False)
-    num = np.clip(dip, -max_dip, max_dip)  # float64 when max_dip is a numpy float64
+    # float32 like the dip (a numpy float64 bound would make it float64)
+    max_dip = float(max_dip)
+    num = np.clip(dip, np.float32(-max_dip), np.float32(max_dip))
     np.multiply(num, w, out=num)
     ndimage.gaussian_filter(num, sigma, mode="nearest", output=num)
     den = ndimage.gaussian_filter(w, sigma, mode="nearest", output=w)
