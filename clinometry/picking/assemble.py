@@ -204,19 +204,27 @@ def steepest_unconfirmed(cand, z_index, dip_deg, coh, period_samples, half_width
     tr = np.arange(max(lo_f, cand.steepest - w), min(hi_f, cand.steepest + w) + 1)
     if tr.size < 3:
         return ""
-    # the reflection itself: from the pick down through the main lobe of the
-    # wavelet (half a period); deeper pixels image older, often flatter
-    # strata beneath a gentle slope, not the slope
-    below = np.round(z_index[tr])[:, None] + np.arange(0, int(np.ceil(0.5 * period_samples)) + 1)[None, :]
-    inside = (below >= 0) & (below <= nz - 1)  # pixels outside the record are not evidence
-    below = np.clip(below, 0, nz - 1).astype(int)
-    d = sgn * dip_deg[tr[:, None], below]
-    sure = (coh[tr[:, None], below] >= FACE_COHERENCE) & inside
+
+    def evidence(tr):
+        # the reflection itself: from the pick down through the main lobe of
+        # the wavelet (half a period); deeper pixels image older, often
+        # flatter strata beneath a gentle slope, not the slope
+        below = np.round(z_index[tr])[:, None] + np.arange(0, int(np.ceil(0.5 * period_samples)) + 1)[None, :]
+        inside = (below >= 0) & (below <= nz - 1)  # pixels outside the record are not evidence
+        below = np.clip(below, 0, nz - 1).astype(int)
+        return sgn * dip_deg[tr[:, None], below], (coh[tr[:, None], below] >= FACE_COHERENCE) & inside
+
+    d, sure = evidence(tr)
     # where the surface steps by half a period or more per trace the
     # foreset is spatially aliased and the tensor's dip sign is unreliable:
     # only the dip magnitude is used (flat coherent reflections still show
     # a step between layers)
     aliased = np.percentile(np.abs(np.gradient(z_index)[tr]), 75) >= 0.5 * period_samples
+    if sure.sum() < 3 and not aliased and hi_f - lo_f + 1 > tr.size:
+        # too few coherent pixels near the steepest point: the nearest
+        # evidence lies elsewhere along the foreset (break to toe)
+        tr = np.arange(lo_f, hi_f + 1)
+        d, sure = evidence(tr)
     if sure.sum() < 3:
         # a surface that steps a period per trace with no coherent
         # reflection along it is a staircase across layers in noise
