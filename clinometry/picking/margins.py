@@ -20,6 +20,13 @@ analysed as a profile ``depth(distance)``:
    between the steepest point and the basinward end.  This is the
    geometric definition of break and toe used for clinoform rollover
    points (e.g. Pirmez, Pratson & Steckler 1998; Adams & Schlager 2000).
+   Two refinements keep the picks on the right margin: where the sharpest
+   bends bound less than the minimum relief of a leg that has it (a ramp
+   deepening in gentle steps with a terrace between), break and toe are
+   the outermost clear bends of the leg; and where an opposite flank
+   follows (the far side of an isolated platform), break and toe are
+   searched short of that flank's bend when the top or floor between them
+   is a flat stretch of its own, so the far margin's bend is not taken.
 3. **Acceptance.**  A candidate needs a landward top flatter than half its
    steepest slope (otherwise it is regional dip, not a margin), a foreset
    spanning several traces (a one-trace step is a jump between two
