@@ -25,7 +25,8 @@ def _profile(x, knots_m, weights):
     return 200.0 + np.concatenate([[0.0], np.cumsum(0.5 * (grad[1:] + grad[:-1]) * np.diff(x))])
 
 
-def test_ramp_in_two_gentle_steps_gets_its_outermost_bends():
+@pytest.mark.parametrize("mirrored", [False, True])
+def test_ramp_in_two_gentle_steps_gets_its_outermost_bends(mirrored):
     # a ramp that deepens in two gentle steps with a flat terrace between
     # them: each step (56 m) is below the minimum relief, the whole ramp
     # (112 m) above it; the landward bend is rounded over 1000-3000 m
@@ -34,12 +35,16 @@ def test_ramp_in_two_gentle_steps_gets_its_outermost_bends():
     x = np.arange(640) * DX_M
     d = _profile(x, ([1000, 3000, 6000, 6000.1], [9000, 9000.1, 12000, 14000]), ([0, 1, 1, 0], [0, 1, 1, 0]))
     assert d[-1] - d[0] == pytest.approx(2 * 4000.0 * np.tan(np.radians(RAMP_DEG)))
+    brk_m, toe_m = 2000.0, 13000.0
+    if mirrored:  # the same ramp facing "-"
+        d = d[::-1]
+        brk_m, toe_m = x[-1] - brk_m, x[-1] - toe_m
     cands = profile_candidates(x, d, np.ones(x.size), path_rank=0, smoothing_m=SMOOTHING_M, min_relief_m=MIN_RELIEF_M)
-    assert [c.direction for c in cands] == ["+"]
+    assert [c.direction for c in cands] == (["-"] if mirrored else ["+"])
     c = cands[0]
     # within one smoothing length of the bend centres
-    assert abs(x[c.shelf_break] - 2000.0) <= SMOOTHING_M
-    assert abs(x[c.toe] - 13000.0) <= SMOOTHING_M
+    assert abs(x[c.shelf_break] - brk_m) <= SMOOTHING_M
+    assert abs(x[c.toe] - toe_m) <= SMOOTHING_M
     assert c.relief_m >= MIN_RELIEF_M
 
 
