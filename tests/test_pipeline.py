@@ -237,14 +237,13 @@ def _got_vs_truth(name, key):
 # {name: "(direction, got family, got slope_max_deg, truth family, truth slope_max_deg)"};
 # none at present (every bundled line's family matches its truth).
 _FAMILY_XFAIL = {}
-# (direction, got class, got angle, got flat band, truth class, truth angle): older clinoforms
-# are followed through the dip field beneath the outer profile (picking/clinoforms.py) and the
-# trajectory is a Theil-Sen line through their breaks; deep_factory_shelf's true breaks first
-# step back landward and down (steps 8-16) and then rise (steps 20-40), net descending, while
-# the picked breaks follow the rise, tracked in issue 6
-_TRAJECTORY_XFAIL = {
-    "deep_factory_shelf": "[('+', 'ascending', 2.88, 2.11, 'descending', -1.9)]",
-}
+# (direction, got class, got angle, got flat band, truth class, truth angle) of known
+# mismatches; none at present.  Older clinoforms are followed through the dip field beneath
+# the outer profile (picking/clinoforms.py) and the trajectory is a Theil-Sen line through
+# their breaks (Theil 1950, Sen 1968, from memory); the truth uses the same estimator
+# (synth/truth.py), so deep_factory_shelf, whose true breaks step back landward early on and
+# then rise, is "ascending" on both sides (a least-squares truth called it descending).
+_TRAJECTORY_XFAIL = {}
 
 
 def _params(xfails):

@@ -38,6 +38,19 @@ def test_trajectory_angle_of_a_straight_rising_path():
     assert trajectory([0.0, 100.0, 200.0], [10.0, 20.0, 30.0])["class"] == "descending"
 
 
+def test_trajectory_is_the_theil_sen_line_one_wild_break_does_not_set_it():
+    # four breaks rising 5 m per 100 m and a fifth 65 m below the line: the ten pairwise
+    # slopes are six of -0.05 and 0.125, 0.183, 0.3, 0.65 (worked by hand), so their median
+    # (Theil 1950; Sen 1968, from memory) is -0.05: angle atan(0.05) = 2.862 deg, ascending,
+    # where a least-squares line would descend
+    s = [0.0, 100.0, 200.0, 300.0, 400.0]
+    d = [50.0, 45.0, 40.0, 35.0, 100.0]
+    t = trajectory(s, d)
+    np.testing.assert_allclose(t["angle_deg"], np.degrees(np.arctan(0.05)))
+    assert t["class"] == "ascending"
+    assert np.polyfit(s, d, 1)[0] > 0  # least squares: depth increases basinward
+
+
 @pytest.mark.parametrize("name", [n for n, s in SCENARIOS.items() if s.family])
 def test_each_scenario_grows_the_family_it_was_meant_to(name):
     sec, truth = LINES[name]
