@@ -263,9 +263,14 @@ def pick_default(
     )
     max_jump = _max_jump_samples(section, velocity, max_dip_deg, dx_m)
     dip, coh = reflector_orientation(cond.amplitude, sigma_z_samples=max(1.0, period_samples / 4), sigma_trace=1.5)
+    # only the sign of the balanced amplitudes is used after this (the
+    # polarity of each tracked surface): kept as a boolean image, the
+    # amplitudes released before tracking (memory: a quarter of the bytes)
+    positive = cond.amplitude > 0
+    cond = dataclasses.replace(cond, amplitude=None)
     paths = track_paths(
         cond.envelope,
-        cond.amplitude,
+        positive,
         period_samples=period_samples,
         max_jump_samples=max_jump,
         n_paths=n_surfaces,
@@ -273,8 +278,7 @@ def pick_default(
         coherence=coh,
         dead=cond.dead,
     )
-    # the balanced amplitudes are not used after tracking: released (memory)
-    cond = dataclasses.replace(cond, amplitude=None)
+    del positive
     n = data.shape[0]
     rows = np.arange(n)
     dip_deg = true_dip_deg(section, velocity, dip, dx_m)

@@ -290,7 +290,8 @@ def track_paths(
     envelope : array_like, shape (n_trace, n_z)
         Envelope of the balanced data.
     amplitude : array_like, shape (n_trace, n_z)
-        Balanced data (for the polarity of each surface).
+        Balanced data, or only where it is positive (bool; the same
+        result, a quarter of the memory): for the polarity of each surface.
     period_samples : float
         Dominant period in samples.
     max_jump_samples : float
@@ -317,7 +318,9 @@ def track_paths(
     list of TrackedPath
     """
     env = np.asarray(envelope, dtype=np.float32)
-    amp = np.asarray(amplitude, dtype=np.float32)
+    amp = np.asarray(amplitude)
+    if amp.dtype != bool:
+        amp = amp.astype(np.float32, copy=False)
     n, nz = env.shape
     scale = np.float32(float(np.percentile(quantile_sample(env), NORMALISING_PERCENTILE)) or 1.0)
     factor = int(max(1, round(period_samples / CELLS_PER_PERIOD)))
@@ -363,9 +366,9 @@ def track_paths(
         q = np.clip((q - background) / max(1.0 - background, 1e-6), 0.0, 1.0)
         q[dead] = 0.0
         zi, best = _refine(env, cpath, factor, scale)
-        sgn = np.sign(amp[np.arange(n), best])
+        positive = amp[np.arange(n), best] > 0
         strong = q > 0.3
-        frac = float(np.mean(sgn[strong] > 0)) if strong.any() else 0.5
+        frac = float(np.mean(positive[strong])) if strong.any() else 0.5
         polarity = "peak" if frac >= 0.7 else "trough" if frac <= 0.3 else "unknown"
         out.append(TrackedPath(z_index=zi.astype(np.float64), quality=q, polarity=polarity, rank=rank))
         # suppress the cells within half a period of the path (in place)

@@ -78,3 +78,25 @@ def test_pooling_into_a_view_of_a_padded_layout_equals_numpy_pad_and_reduce(nz, 
     _pool_cells(a, factor, how, pad, out=big[:, 3 : 3 + m])
     np.testing.assert_array_equal(big[:, 3 : 3 + m], expected)
     np.testing.assert_array_equal(big[:, :3], 0.0)
+
+
+def test_track_paths_with_only_the_sign_of_the_amplitudes_gives_the_same_surfaces():
+    # polarity needs only where the amplitude is positive: a boolean image
+    # (a quarter of the memory) must give the same paths, qualities and
+    # polarities as the float amplitudes (common practice, no source)
+    rng = np.random.default_rng(3)
+    n, nz = 60, 200
+    z = np.arange(nz)
+    amp = np.zeros((n, nz), np.float32)
+    for i in range(n):
+        amp[i] += np.cos(2 * np.pi * (z - 60 - 0.3 * i) / 12.0) * np.exp(-(((z - 60 - 0.3 * i) / 8.0) ** 2))
+        amp[i] -= 0.6 * np.cos(2 * np.pi * (z - 140) / 12.0) * np.exp(-(((z - 140) / 8.0) ** 2))
+    amp += 0.05 * rng.standard_normal(amp.shape).astype(np.float32)
+    env = np.abs(amp)
+    a = track_paths(env, amp, period_samples=12.0, max_jump_samples=3.0, n_paths=3)
+    b = track_paths(env, amp > 0, period_samples=12.0, max_jump_samples=3.0, n_paths=3)
+    assert [p.polarity for p in a] == [p.polarity for p in b]
+    assert a[0].polarity == "peak" and a[1].polarity == "trough"
+    for p, q in zip(a, b):
+        np.testing.assert_array_equal(p.z_index, q.z_index)
+        np.testing.assert_array_equal(p.quality, q.quality)
