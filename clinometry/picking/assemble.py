@@ -58,6 +58,11 @@ STEEPEST_WINDOW_FORESET_FRACTION = 0.25
 #: :func:`clinometry.picking.orientation.reflector_orientation` as called by
 #: the default picker (sigma_trace=1.5)
 TENSOR_SIGMA_TRACES = 1.5
+#: a foreset whose relief is at least this share in jumps of a quarter
+#: period or more, with at least STAIRCASE_TREAD_SHARE of its traces flat
+#: (steps below a tenth of a period), is a staircase (our choice, no source)
+STAIRCASE_JUMP_SHARE = 0.6
+STAIRCASE_TREAD_SHARE = 0.5
 #: structure-tensor coherence above which a dip is trusted in these tests
 #: (common practice, no source)
 FACE_COHERENCE = 0.5
@@ -214,6 +219,19 @@ def steepest_unconfirmed(cand, z_index, dip_deg, coh, period_samples, half_width
         below = np.clip(below, 0, nz - 1).astype(int)
         return sgn * dip_deg[tr[:, None], below], (coh[tr[:, None], below] >= FACE_COHERENCE) & inside
 
+    # flat treads joined by jumps of a quarter period or more, the jumps
+    # making most of the relief: a staircase between flat reflectors
+    # (common practice, no source)
+    st = np.abs(np.diff(np.asarray(z_index, float)[lo_f : hi_f + 1]))
+    if st.size >= 4 and st.sum() >= period_samples:
+        jump = st >= 0.25 * period_samples
+        tread = st <= 0.1 * period_samples
+        if st[jump].sum() >= STAIRCASE_JUMP_SHARE * st.sum() and tread.mean() >= STAIRCASE_TREAD_SHARE:
+            return (
+                f"{100 * st[jump].sum() / st.sum():.0f}% of the surface's relief between break and toe is in jumps of a "
+                f"quarter period or more between flat treads ({100 * tread.mean():.0f}% of the traces): a staircase "
+                "between reflectors, not a slope"
+            )
     d, sure = evidence(tr)
     # where the surface steps by half a period or more per trace the
     # foreset is spatially aliased and the tensor's dip sign is unreliable:

@@ -122,3 +122,17 @@ def test_surface_stepping_across_flat_coherent_layers_cuts_the_layering():
     dip = np.zeros((60, 400), dtype=np.float32)  # flat reflectors
     coh = np.full((60, 400), 0.9, dtype=np.float32)
     assert "cuts across" in cuts_layering(_candidate(brk=15, steepest=30, toe=45), z, dip, coh, period)
+
+
+def test_flat_treads_joined_by_jumps_are_a_staircase_even_where_noise_dips_with_it():
+    # treads of 4 flat traces joined by jumps of 8 samples (0.4 period),
+    # over coherent "reflections" dipping 30 deg basinward (as laterally
+    # incoherent noise can look to a structure tensor): the jumps make all
+    # the relief and most traces are flat, so it is a staircase
+    period = 20.0
+    t = np.arange(60)
+    z = 50.0 + 8.0 * np.clip((t - 16) // 5 + 1, 0, 6)
+    dip = np.full((60, 400), 30.0, dtype=np.float32)
+    coh = np.full((60, 400), 0.9, dtype=np.float32)
+    why = steepest_unconfirmed(_candidate(brk=15, steepest=30, toe=45), z, dip, coh, period, 4.0)
+    assert "staircase" in why
