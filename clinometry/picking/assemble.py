@@ -197,7 +197,14 @@ def steepest_unconfirmed(cand, z_index, dip_deg, coh, period_samples, half_width
     reflector to a deeper one (across a fault, or between flat layers) its
     smoothed slope is steep but the reflections there are flat or dip the
     other way.  The test uses the signed basinward dip, so noise around
-    zero does not confirm a slope.
+    zero does not confirm a slope.  The dip is read within a quarter of the
+    foreset width of the steepest point (at least ``half_width_traces``),
+    along the whole foreset where that holds too few coherent pixels.  A
+    surface whose relief between break and toe is mostly in jumps of a
+    quarter period or more between flat treads is a staircase between
+    reflectors whatever the dips say (laterally incoherent noise can look
+    steeply dipping to the structure tensor); so is an aliased surface with
+    no coherent reflection along it.
     """
     n, nz = dip_deg.shape
     sgn = 1.0 if cand.direction == "+" else -1.0
