@@ -86,10 +86,10 @@ def _match(truth_margin, picked):
     return best if lo - width <= best.shelf_break.trace <= hi + width else None
 
 
-def run(quick: bool, verbose: bool = False, scenarios=None):
+def run(quick: bool, verbose: bool = False, scenarios=None, seeds=None):
     scen = [s for s in SCENARIOS if s != NO_MARGIN and (not scenarios or s in scenarios)]
     variants = VARIANTS[:2] if quick else VARIANTS
-    seeds = (0,) if quick else (0, 1)
+    seeds = tuple(seeds) if seeds else (0,) if quick else (0, 1)
     rows = {snr: {"bpos": [], "bdep": [], "slope": [], "relief": [], "found": 0, "n": 0, "false": 0, "n_none": 0, "t": [],
                   "traj_ok": 0, "traj_n": 0} for snr in SNRS}
     for snr, variant, seed in itertools.product(SNRS, variants, seeds):
@@ -151,9 +151,10 @@ def main(argv=None):
     ap.add_argument("--quick", action="store_true", help="fewer variants and seeds (about a minute)")
     ap.add_argument("--verbose", action="store_true", help="one line per margin")
     ap.add_argument("--scenarios", nargs="+", metavar="NAME", help="only these margin scenarios (for quick checks)")
+    ap.add_argument("--seeds", nargs="+", type=int, metavar="N", help="noise/geometry seeds (default 0 1; 0 with --quick)")
     args = ap.parse_args(argv)
     t0 = time.perf_counter()
-    rows, n_scen, variants, seeds = run(args.quick, args.verbose, args.scenarios)
+    rows, n_scen, variants, seeds = run(args.quick, args.verbose, args.scenarios, args.seeds)
     print(f"# picker accuracy on clinometry.synth lines ({n_scen} margin scenarios + 1 no-margin, "
           f"{len(variants)} wavelet/velocity/spacing/header variants, seeds {list(seeds)})")
     print("slope and relief from clinometry.metrics.measure; errors are medians over found margins\n")
