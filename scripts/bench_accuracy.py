@@ -9,7 +9,9 @@ break depth error (m), maximum-slope error (deg), relief error (%), the
 margin detection rate, the number of false margins on lines that have
 none, and how many found margins get the true shelf-break trajectory class
 (ascending / flat / descending; a margin without a measured trajectory
-counts as wrong).  Slope and relief come from ``clinometry.metrics.measure`` (said in
+counts as wrong), and the median absolute trajectory-angle error (deg) over
+the margins where both the truth and the pick have a trajectory (their
+number in brackets).  Slope and relief come from ``clinometry.metrics.measure`` (said in
 the output).
 
 Usage::
@@ -91,7 +93,7 @@ def run(quick: bool, verbose: bool = False, scenarios=None, seeds=None):
     variants = VARIANTS[:2] if quick else VARIANTS
     seeds = tuple(seeds) if seeds else (0,) if quick else (0, 1)
     rows = {snr: {"bpos": [], "bdep": [], "slope": [], "relief": [], "found": 0, "n": 0, "false": 0, "n_none": 0, "t": [],
-                  "traj_ok": 0, "traj_n": 0} for snr in SNRS}
+                  "traj_ok": 0, "traj_n": 0, "angle": []} for snr in SNRS}
     for snr, variant, seed in itertools.product(SNRS, variants, seeds):
         for sc in scen + [NO_MARGIN]:
             sec, truth = _line(sc, snr, seed, variant)
@@ -137,13 +139,21 @@ def run(quick: bool, verbose: bool = False, scenarios=None, seeds=None):
                     r["traj_n"] += 1
                     got = (mm.trajectory or {}).get("class")
                     r["traj_ok"] += int(got == t_cls)
+                    t_ang = tm["trajectory"].get("angle_deg")
+                    g_ang = (mm.trajectory or {}).get("angle_deg")
+                    if t_ang is not None and g_ang is not None:
+                        r["angle"].append(abs(g_ang - t_ang))
                     if verbose:
-                        print(f"    trajectory {got} vs {t_cls}")
+                        print(f"    trajectory {got} vs {t_cls}, angle {g_ang} vs {t_ang}")
     return rows, len(scen), variants, seeds
 
 
 def _med(v):
     return f"{np.median(v):.1f}" if v else "n/a"
+
+
+def _med2(v):
+    return f"{np.median(v):.2f}" if v else "n/a"
 
 
 def main(argv=None):
@@ -158,12 +168,12 @@ def main(argv=None):
     print(f"# picker accuracy on clinometry.synth lines ({n_scen} margin scenarios + 1 no-margin, "
           f"{len(variants)} wavelet/velocity/spacing/header variants, seeds {list(seeds)})")
     print("slope and relief from clinometry.metrics.measure; errors are medians over found margins\n")
-    print("| SNR | break position error (m) | break depth error (m) | max-slope error (deg) | relief error (%) | margins found | false margins (no-margin lines) | trajectory class right | s/line |")
-    print("|---|---|---|---|---|---|---|---|---|")
+    print("| SNR | break position error (m) | break depth error (m) | max-slope error (deg) | relief error (%) | margins found | false margins (no-margin lines) | trajectory class right | trajectory angle error (deg) | s/line |")
+    print("|---|---|---|---|---|---|---|---|---|---|")
     for snr, r in rows.items():
         label = "inf" if math.isinf(snr) else f"{snr:g}"
         print(f"| {label} | {_med(r['bpos'])} | {_med(r['bdep'])} | {_med(r['slope'])} | {_med(r['relief'])} | "
-              f"{r['found']}/{r['n']} | {r['false']} on {r['n_none']} | {r['traj_ok']}/{r['traj_n']} | {np.mean(r['t']):.2f} |")
+              f"{r['found']}/{r['n']} | {r['false']} on {r['n_none']} | {r['traj_ok']}/{r['traj_n']} | {_med2(r['angle'])} ({len(r['angle'])}) | {np.mean(r['t']):.2f} |")
     print(f"\ntotal {time.perf_counter() - t0:.0f} s")
     return 0
 
