@@ -82,6 +82,7 @@ from dataclasses import dataclass
 import numpy as np
 from scipy import ndimage
 
+from .condition import weighted_gaussian
 from .margins import TOP_FLATNESS_FRACTION, profile_candidates, to_depth
 
 __all__ = [
@@ -155,20 +156,8 @@ def _reach(zr, sigma_z, nz):
 
 def _weighted_dip(dip, coh, sigma, max_dip):
     """Coherence-weighted Gaussian average of the dip (samples per trace), within +-max_dip."""
-    # made in place (memory; the same numbers as
-    # np.where(den > 1e-3, num / np.maximum(den, 1e-3), 0.0))
-    w = np.where(coh >= MIN_COHERENCE, coh, 0.0).astype(np.float32, copy=False)
-    # float32 like the dip (a numpy float64 bound would make it float64)
-    max_dip = float(max_dip)
-    num = np.clip(dip, np.float32(-max_dip), np.float32(max_dip))
-    np.multiply(num, w, out=num)
-    ndimage.gaussian_filter(num, sigma, mode="nearest", output=num)
-    den = ndimage.gaussian_filter(w, sigma, mode="nearest", output=w)
-    keep = den > 1e-3
-    np.maximum(den, 1e-3, out=den)
-    np.divide(num, den, out=num)
-    num[~keep] = 0.0
-    return num.astype(np.float32, copy=False)
+    # on blocks of traces (memory; the same numbers as for the whole image)
+    return weighted_gaussian(dip, coh, sigma, limit=max_dip, min_weight=MIN_COHERENCE)
 
 
 def streamlines(dip, seeds_trace, seeds_z, *, floor=None):

@@ -52,6 +52,8 @@ __all__ = [
     "condition",
     "open_rectangle",
     "quantile_sample",
+    "weighted_gaussian",
+    "envelope_in_place",
 ]
 
 logger = logging.getLogger(__name__)
@@ -259,6 +261,39 @@ def envelope(data) -> np.ndarray:
     return out
 
 
+def envelope_in_place(data) -> np.ndarray:
+    """Overwrite float32 amplitudes with their envelope; return where they were positive.
+
+    The same values as :func:`envelope` (trace by trace, in the same blocks),
+    written over the input, which is no longer needed as amplitudes (memory:
+    no second full-size image).
+
+    Parameters
+    ----------
+    data : numpy.ndarray, float32, shape (n_trace, n_z)
+        Overwritten with its envelope.
+
+    Returns
+    -------
+    numpy.ndarray of bool, shape (n_trace, n_z)
+        ``data > 0`` before it was overwritten.
+
+    Examples
+    --------
+    >>> a = np.cos(2 * np.pi * np.arange(64) / 8.0).astype(np.float32)[None, :]
+    >>> pos = envelope_in_place(a)
+    >>> bool(pos[0, 0]), bool(np.allclose(a[0, 16:48], 1.0, atol=1e-6))
+    (True, True)
+    """
+    if not (isinstance(data, np.ndarray) and data.dtype == np.float32 and data.ndim == 2):
+        raise TypeError("envelope_in_place needs a 2-D float32 numpy array")
+    positive = np.empty(data.shape, dtype=bool)
+    for rows in _row_blocks(data):
+        np.greater(data[rows], 0, out=positive[rows])
+        data[rows] = np.abs(signal.hilbert(data[rows], axis=-1))
+    return positive
+
+
 def dominant_period(data, dz: float, *, max_traces: int = 400) -> float:
     """Dominant period from the peak of the mean amplitude spectrum.
 
@@ -307,7 +342,7 @@ def dominant_period(data, dz: float, *, max_traces: int = 400) -> float:
     return float(1.0 / freq) if freq > 0 else float("nan")
 
 
-def condition(data, dz: float, *, known_dead=()) -> Conditioned:
+def condition(data, dz: float, *, known_dead=(), with_envelope: bool = True) -> Conditioned:
     """Mask and fill dead traces, balance gain along the line, compute the envelope.
 
     Parameters
@@ -317,6 +352,10 @@ def condition(data, dz: float, *, known_dead=()) -> Conditioned:
     dz : float
         Sample interval in z units.
     known_dead : sequence of int, optional
+    with_envelope : bool
+        False leaves ``envelope`` None: the caller makes it later with
+        :func:`envelope_in_place` once it is done with the amplitudes
+        (memory: one full-size image less while both would be alive).
 
     Returns
     -------
@@ -338,7 +377,7 @@ def condition(data, dz: float, *, known_dead=()) -> Conditioned:
     # step-th), gathered without a full-size copy of the live traces
     rows = np.flatnonzero(~dead) if (~dead).any() else np.arange(bal.shape[0])
     period = dominant_period(bal[rows[:: max(1, rows.size // _PERIOD_TRACES)]], dz, max_traces=_PERIOD_TRACES)
-    env = envelope(bal)
+    env = envelope(bal) if with_envelope else None
     logger.debug("conditioned: %d dead traces, dominant period %.3g", int(dead.sum()), period)
     return Conditioned(amplitude=bal, envelope=env, dead=dead, period_z=period, notes=tuple(notes))
 
@@ -428,3 +467,72 @@ def open_rectangle(mask, shape) -> np.ndarray:
     origin = [-1 if s % 2 == 0 else 0 for s in shape]
     eroded = ndimage.minimum_filter(m, size=shape, mode="constant", cval=0)
     return ndimage.maximum_filter(eroded, size=shape, mode="constant", cval=0, origin=origin).view(bool)
+
+
+#: Gaussian support in sigmas (the default truncation of
+#: :func:`scipy.ndimage.gaussian_filter`)
+_TRUNCATE = 4.0
+
+
+def weighted_gaussian(values, weights, sigma, *, limit: float, min_weight: float, min_den: float = 1e-3):
+    """Weighted Gaussian average of an image, on blocks of traces.
+
+    ``G * (clip(values, -limit, limit) w) / G * w`` with ``w = weights``
+    where ``weights >= min_weight`` (0 elsewhere), ``G`` the Gaussian of
+    :func:`scipy.ndimage.gaussian_filter` (``mode="nearest"``), and 0 where
+    ``G * w <= min_den``.  Each block of traces carries a margin as wide as
+    the Gaussian's radius along the line, so every value is computed from
+    the same inputs in the same order as for the whole image at once, while
+    the temporaries stay a few MB instead of two full-size images.
+
+    Parameters
+    ----------
+    values, weights : numpy.ndarray, shape (n_trace, n_z)
+        The image (e.g. dip, samples per trace) and its weights (e.g.
+        coherence, 0..1).
+    sigma : tuple of float, (traces, samples)
+        Gaussian sigmas along the line and along z.
+    limit : float
+        Values are clipped to +-limit (same units as ``values``).
+    min_weight : float
+        Weights below this count as 0.
+    min_den : float
+        Where the smoothed weight is at most this the result is 0.
+
+    Returns
+    -------
+    numpy.ndarray, float32, shape (n_trace, n_z)
+
+    Examples
+    --------
+    >>> v = np.array([[1.0, 1.0], [3.0, 3.0]], np.float32)
+    >>> w = np.array([[1.0, 1.0], [0.1, 0.1]], np.float32)
+    >>> weighted_gaussian(v, w, (0.5, 0.5), limit=2.0, min_weight=0.3)[:, 0].tolist()
+    [1.0, 1.0]
+    """
+    values = np.asarray(values)
+    weights = np.asarray(weights)
+    n, nz = values.shape
+    out = np.empty(values.shape, dtype=np.float32)
+    halo = int(_TRUNCATE * float(sigma[0]) + 0.5)
+    step = max(8, _BLOCK_CELLS // max(nz, 1))
+    for s0 in range(0, n, step):
+        s1 = min(n, s0 + step)
+        lo, hi = max(0, s0 - halo), min(n, s1 + halo)
+        out[s0:s1] = _weighted_block(values[lo:hi], weights[lo:hi], sigma, limit, min_weight, min_den)[s0 - lo : s1 - lo]
+    return out
+
+
+def _weighted_block(values, weights, sigma, limit, min_weight, min_den):
+    w = np.where(weights >= min_weight, weights, 0.0).astype(np.float32, copy=False)
+    # float32 like the values (a numpy float64 bound would make it float64)
+    limit = float(limit)
+    num = np.clip(values, np.float32(-limit), np.float32(limit))
+    np.multiply(num, w, out=num)
+    ndimage.gaussian_filter(num, sigma, mode="nearest", output=num)
+    den = ndimage.gaussian_filter(w, sigma, mode="nearest", output=w)
+    keep = den > min_den
+    np.maximum(den, min_den, out=den)
+    np.divide(num, den, out=num)
+    num[~keep] = 0.0
+    return num

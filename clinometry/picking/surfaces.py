@@ -42,7 +42,7 @@ from scipy import ndimage
 from ..errors import PickingError
 from ..section import check_section, section_name
 from .clinoforms import foreset_clinoforms
-from .condition import condition
+from .condition import condition, envelope_in_place
 from .faces import slope_faces
 from .margins import EDGE_CONFIDENCE_FACTOR, profile_candidates, to_depth, velocity_at
 from .orientation import reflector_orientation
@@ -240,7 +240,8 @@ def pick_default(
     z_axis = section["z"].values.astype(float)
     dz = float(section.attrs["sample_interval"])
     notes = []
-    cond = condition(data, dz, known_dead=section.attrs.get("dead_traces", []))
+    # the envelope is made after the orientation, over the amplitudes (memory)
+    cond = condition(data, dz, known_dead=section.attrs.get("dead_traces", []), with_envelope=False)
     notes.extend(cond.notes)
     if cond.dead.all():
         raise PickingError(f"{name}: every trace is dead (zero, constant or non-finite); nothing to pick")
@@ -264,10 +265,13 @@ def pick_default(
     max_jump = _max_jump_samples(section, velocity, max_dip_deg, dx_m)
     dip, coh = reflector_orientation(cond.amplitude, sigma_z_samples=max(1.0, period_samples / 4), sigma_trace=1.5)
     # only the sign of the balanced amplitudes is used after this (the
-    # polarity of each tracked surface): kept as a boolean image, the
-    # amplitudes released before tracking (memory: a quarter of the bytes)
-    positive = cond.amplitude > 0
-    cond = dataclasses.replace(cond, amplitude=None)
+    # polarity of each tracked surface): kept as a boolean image, and the
+    # amplitudes overwritten by their envelope (the same values as
+    # condition.envelope; memory: no second full-size image)
+    amplitude = cond.amplitude
+    positive = envelope_in_place(amplitude)
+    cond = dataclasses.replace(cond, amplitude=None, envelope=amplitude)
+    del amplitude
     paths = track_paths(
         cond.envelope,
         positive,

@@ -10,8 +10,10 @@ from clinometry.picking.condition import (
     dead_trace_mask,
     dominant_period,
     envelope,
+    envelope_in_place,
     fill_dead_traces,
     quantile_sample,
+    weighted_gaussian,
 )
 
 
@@ -130,3 +132,53 @@ def test_quantile_sample_of_a_large_image_keeps_the_quantile_within_its_standard
     np.testing.assert_array_equal(s, a[::10])
     assert abs(np.percentile(s, 99) - 0.99) < 4 * 7e-4
     assert abs(np.median(s) - 0.5) < 4 * np.sqrt(0.25 / 20_000)
+
+
+def test_envelope_in_place_equals_envelope_and_returns_the_sign():
+    # the envelope against scipy.signal.hilbert directly (Taner, Koehler &
+    # Sheriff 1979: |analytic signal|), over several row blocks
+    from scipy import signal
+
+    rng = np.random.default_rng(3)
+    a = rng.normal(0, 1, (1200, 700)).astype(np.float32)
+    ref_env = envelope(a)
+    ref_pos = a > 0
+    direct = np.abs(signal.hilbert(a[:5], axis=-1)).astype(np.float32)
+    b = a.copy()
+    pos = envelope_in_place(b)
+    np.testing.assert_array_equal(b, ref_env)
+    np.testing.assert_array_equal(pos, ref_pos)
+    np.testing.assert_allclose(b[:5], direct, rtol=1e-6)
+
+
+def test_envelope_in_place_refuses_arrays_it_cannot_overwrite():
+    with pytest.raises(TypeError, match="2-D float32"):
+        envelope_in_place(np.zeros((3, 4)))
+
+
+def test_condition_without_envelope_leaves_it_to_the_caller():
+    rng = np.random.default_rng(4)
+    d = rng.normal(0, 1, (20, 128))
+    full = condition(d, 2.0)
+    part = condition(d, 2.0, with_envelope=False)
+    assert part.envelope is None
+    np.testing.assert_array_equal(part.amplitude, full.amplitude)
+    assert part.period_z == full.period_z
+
+
+@pytest.mark.parametrize("shape,sigma", [((3000, 300), (7.3, 2.1)), ((40, 50), (20.0, 1.0)), ((2100, 520), (0.5, 0.5))])
+def test_weighted_gaussian_on_blocks_equals_the_whole_image_at_once(shape, sigma):
+    # reference: scipy.ndimage.gaussian_filter on the whole image (an
+    # independent general-purpose filter), weights below min_weight dropped
+    from scipy import ndimage
+
+    rng = np.random.default_rng(5)
+    v = rng.normal(0, 2, shape).astype(np.float32)
+    w = rng.uniform(0, 1, shape).astype(np.float32)
+    w0 = np.where(w >= 0.3, w, 0.0).astype(np.float32)
+    num = ndimage.gaussian_filter(np.clip(v, np.float32(-3), np.float32(3)) * w0, sigma, mode="nearest")
+    den = ndimage.gaussian_filter(w0, sigma, mode="nearest")
+    ref = np.where(den > 1e-3, num / np.maximum(den, np.float32(1e-3)), 0.0).astype(np.float32)
+    got = weighted_gaussian(v, w, sigma, limit=3.0, min_weight=0.3)
+    assert got.dtype == np.float32
+    np.testing.assert_array_equal(got, ref)
