@@ -42,6 +42,7 @@ __all__ = [
     "foreset_span",
     "regularise",
     "true_dip_deg",
+    "TrueDipRows",
 ]
 
 #: coherent dips steeper than this (true degrees) mark a slope face
@@ -89,6 +90,27 @@ def true_dip_deg(section, velocity, dip_samples, dx_m):
     np.arctan(out, out=out)
     np.degrees(out, out=out)
     return out.astype(np.float32, copy=False)
+
+
+class TrueDipRows:
+    """The true dip of :func:`true_dip_deg`, made for a slice of traces where read.
+
+    For a reader that goes through the image block by block
+    (:func:`clinometry.picking.faces.slope_faces`): the values are those of
+    :func:`true_dip_deg` on the whole image, without a full-size image
+    (memory).  Only ``shape`` and slicing by rows (``obj[a:b]``) are provided.
+    """
+
+    def __init__(self, section, velocity, dip_samples, dx_m):
+        self._args = (section, velocity, dx_m)
+        self._dip = dip_samples
+        self.shape = dip_samples.shape
+
+    def __getitem__(self, rows):
+        if not isinstance(rows, slice):
+            raise TypeError("TrueDipRows is read by slices of traces only")
+        section, velocity, dx_m = self._args
+        return true_dip_deg(section, velocity, self._dip[rows], dx_m)
 
 
 #: a surface is regularised by a running median over this many wavelengths

@@ -54,6 +54,7 @@ __all__ = [
     "quantile_sample",
     "weighted_gaussian",
     "envelope_in_place",
+    "SignBits",
 ]
 
 logger = logging.getLogger(__name__)
@@ -261,7 +262,37 @@ def envelope(data) -> np.ndarray:
     return out
 
 
-def envelope_in_place(data) -> np.ndarray:
+class SignBits:
+    """Where an image was positive, one bit per cell (:func:`numpy.packbits` along z).
+
+    Read as ``bits[rows, cols]`` with integer index arrays (bool values, the
+    same as indexing the boolean image): an eighth of its memory.
+
+    Examples
+    --------
+    >>> b = SignBits.from_bool(np.array([[True, False] * 5]))
+    >>> b[np.array([0, 0]), np.array([0, 9])].tolist(), b.shape
+    ([True, False], (1, 10))
+    """
+
+    dtype = np.dtype(bool)
+
+    def __init__(self, packed, n_z):
+        self._packed = packed
+        self.shape = (packed.shape[0], int(n_z))
+
+    @classmethod
+    def from_bool(cls, mask):
+        mask = np.asarray(mask, dtype=bool)
+        return cls(np.packbits(mask, axis=1), mask.shape[1])
+
+    def __getitem__(self, key):
+        rows, cols = (np.asarray(k) for k in key)
+        byte = self._packed[rows, cols >> 3]
+        return ((byte >> (7 - (cols & 7)).astype(np.uint8)) & 1).astype(bool)
+
+
+def envelope_in_place(data, *, packed: bool = False):
     """Overwrite float32 amplitudes with their envelope; return where they were positive.
 
     The same values as :func:`envelope` (trace by trace, in the same blocks),
@@ -273,9 +304,13 @@ def envelope_in_place(data) -> np.ndarray:
     data : numpy.ndarray, float32, shape (n_trace, n_z)
         Overwritten with its envelope.
 
+    packed : bool
+        Return the sign as :class:`SignBits` (one bit per cell) instead of
+        a boolean image.
+
     Returns
     -------
-    numpy.ndarray of bool, shape (n_trace, n_z)
+    numpy.ndarray of bool, shape (n_trace, n_z), or SignBits
         ``data > 0`` before it was overwritten.
 
     Examples
@@ -287,11 +322,15 @@ def envelope_in_place(data) -> np.ndarray:
     """
     if not (isinstance(data, np.ndarray) and data.dtype == np.float32 and data.ndim == 2):
         raise TypeError("envelope_in_place needs a 2-D float32 numpy array")
-    positive = np.empty(data.shape, dtype=bool)
+    n, nz = data.shape
+    positive = np.empty((n, -(-nz // 8)), dtype=np.uint8) if packed else np.empty(data.shape, dtype=bool)
     for rows in _row_blocks(data):
-        np.greater(data[rows], 0, out=positive[rows])
+        if packed:
+            positive[rows] = np.packbits(data[rows] > 0, axis=1)
+        else:
+            np.greater(data[rows], 0, out=positive[rows])
         data[rows] = np.abs(signal.hilbert(data[rows], axis=-1))
-    return positive
+    return SignBits(positive, nz) if packed else positive
 
 
 def dominant_period(data, dz: float, *, max_traces: int = 400) -> float:

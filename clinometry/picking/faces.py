@@ -83,6 +83,24 @@ def _smooth_blockwise(a, sigma):
         out[s0:s1] = ndimage.gaussian_filter(a[lo:hi], sigma)[s0 - lo : s0 - lo + (s1 - s0)]
     return out
 
+def _dip_masks(dip_deg, min_dip_deg):
+    """``[dip >= min_dip_deg, dip <= -min_dip_deg]`` of an image read on blocks of traces.
+
+    ``dip_deg`` is an array, or anything with ``shape`` whose slices of rows
+    are arrays (e.g. the true dip made block by block where read).
+    """
+    n, nz = dip_deg.shape
+    up = np.empty((n, nz), dtype=bool)
+    down = np.empty((n, nz), dtype=bool)
+    step = max(8, _BLOCK_CELLS // max(nz, 1))
+    for s0 in range(0, n, step):
+        s1 = min(n, s0 + step)
+        d = np.asarray(dip_deg[s0:s1], dtype=np.float32)
+        np.greater_equal(d, min_dip_deg, out=up[s0:s1])
+        np.less_equal(d, -min_dip_deg, out=down[s0:s1])
+    return [up, down]
+
+
 def _drop_small_regions(mask, min_pixels):
     """``mask`` without its connected regions (``scipy.ndimage.label``) of fewer than ``min_pixels`` pixels.
 
@@ -173,10 +191,9 @@ def slope_faces(
     >>> f[0].direction, int(f[0].trace[10]), round(float(f[0].z_index[10]))
     ('+', 10, 30)
     """
-    dip = np.asarray(dip_deg, dtype=np.float32)
     coh = np.asarray(coherence, dtype=np.float32)
     env = np.asarray(envelope, dtype=np.float32)
-    n, nz = dip.shape
+    n, nz = dip_deg.shape
     hz = max(1, int(round(period_samples / 2)))
     # reflection strength judged over about a period and a few traces, so
     # the gaps between wavelet lobes of one reflection do not count as weak
@@ -184,10 +201,12 @@ def slope_faces(
     strong = env_s >= STRENGTH_FRACTION_OF_MEDIAN * float(np.median(quantile_sample(env_s)))
     del env_s  # only the mask is used from here on (memory)
     strong &= coh >= MIN_COHERENCE
+    # sgn * dip >= min_dip_deg for both directions, read on blocks of traces
+    # (dip_deg may be made block by block where read: no full-size float image)
+    masks = _dip_masks(dip_deg, min_dip_deg)
     out = []
     for direction, sgn in (("+", 1.0), ("-", -1.0)):
-        # sgn * dip >= min_dip_deg, without a full-size float copy of the dip
-        mask = (dip >= min_dip_deg) if sgn > 0 else (dip <= -min_dip_deg)
+        mask = masks.pop(0)
         mask &= strong
         mask = open_rectangle(mask, (3, hz))  # = ndimage.binary_opening, separable
         mask = _drop_small_regions(mask, max(4 * hz * min_traces, 1))

@@ -62,6 +62,7 @@ from .assemble import (
     regularise,
     steepest_unconfirmed,
     true_dip_deg,
+    TrueDipRows,
 )
 from .picks import ClinoformPicks, Horizon, MarginPicks, PickPoint, Picks
 from .tracking import track_paths
@@ -265,11 +266,11 @@ def pick_default(
     max_jump = _max_jump_samples(section, velocity, max_dip_deg, dx_m)
     dip, coh = reflector_orientation(cond.amplitude, sigma_z_samples=max(1.0, period_samples / 4), sigma_trace=1.5)
     # only the sign of the balanced amplitudes is used after this (the
-    # polarity of each tracked surface): kept as a boolean image, and the
+    # polarity of each tracked surface): kept as one bit per cell, and the
     # amplitudes overwritten by their envelope (the same values as
     # condition.envelope; memory: no second full-size image)
     amplitude = cond.amplitude
-    positive = envelope_in_place(amplitude)
+    positive = envelope_in_place(amplitude, packed=True)
     cond = dataclasses.replace(cond, amplitude=None, envelope=amplitude)
     del amplitude
     paths = track_paths(
@@ -285,9 +286,10 @@ def pick_default(
     del positive
     n = data.shape[0]
     rows = np.arange(n)
-    dip_deg = true_dip_deg(section, velocity, dip, dx_m)
+    # the faces read the true dip block by block; the full image is made
+    # once the envelope is released (memory: never both at once)
     faces = slope_faces(
-        dip_deg,
+        TrueDipRows(section, velocity, dip, dx_m),
         coh,
         cond.envelope,
         min_dip_deg=FACE_MIN_DIP_DEG,
@@ -305,6 +307,7 @@ def pick_default(
     del e_q
     # nor is the envelope used after the faces: released (memory)
     cond = dataclasses.replace(cond, envelope=None)
+    dip_deg = true_dip_deg(section, velocity, dip, dx_m)
     zs_list, depth_list, q_list = [], [], []
     for p in paths:
         zs = np.interp(regularise(p.z_index, wavelength / dx_m), np.arange(z_axis.size), z_axis)

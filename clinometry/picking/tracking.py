@@ -52,7 +52,7 @@ from dataclasses import dataclass
 import numpy as np
 from numpy.lib.stride_tricks import sliding_window_view
 
-from .condition import quantile_sample
+from .condition import SignBits, quantile_sample
 
 __all__ = ["TrackedPath", "min_cost_path", "track_paths"]
 
@@ -290,8 +290,9 @@ def track_paths(
     envelope : array_like, shape (n_trace, n_z)
         Envelope of the balanced data.
     amplitude : array_like, shape (n_trace, n_z)
-        Balanced data, or only where it is positive (bool; the same
-        result, a quarter of the memory): for the polarity of each surface.
+        Balanced data, or only where it is positive (bool, or
+        :class:`~clinometry.picking.condition.SignBits`; the same result, a
+        quarter or a 32nd of the memory): for the polarity of each surface.
     period_samples : float
         Dominant period in samples.
     max_jump_samples : float
@@ -318,7 +319,8 @@ def track_paths(
     list of TrackedPath
     """
     env = np.asarray(envelope, dtype=np.float32)
-    amp = np.asarray(amplitude)
+    # the sign may come packed, one bit per cell (condition.SignBits: memory)
+    amp = amplitude if isinstance(amplitude, SignBits) else np.asarray(amplitude)
     if amp.dtype != bool:
         amp = amp.astype(np.float32, copy=False)
     n, nz = env.shape

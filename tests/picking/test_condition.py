@@ -5,6 +5,7 @@ import pytest
 from numpy.testing import assert_allclose
 
 from clinometry.picking.condition import (
+    SignBits,
     balance_traces,
     condition,
     dead_trace_mask,
@@ -182,3 +183,25 @@ def test_weighted_gaussian_on_blocks_equals_the_whole_image_at_once(shape, sigma
     got = weighted_gaussian(v, w, sigma, limit=3.0, min_weight=0.3)
     assert got.dtype == np.float32
     np.testing.assert_array_equal(got, ref)
+
+
+@pytest.mark.parametrize("nz", [1, 8, 13, 700])
+def test_sign_bits_read_back_as_the_boolean_image(nz):
+    # reference: numpy fancy indexing of the boolean image itself
+    rng = np.random.default_rng(7)
+    m = rng.normal(size=(50, nz)) > 0
+    bits = SignBits.from_bool(m)
+    r, c = rng.integers(0, 50, 3000), rng.integers(0, nz, 3000)
+    assert bits.shape == m.shape
+    np.testing.assert_array_equal(bits[r, c], m[r, c])
+
+
+def test_envelope_in_place_packed_sign_equals_the_boolean_sign():
+    rng = np.random.default_rng(8)
+    a = rng.normal(0, 1, (900, 613)).astype(np.float32)
+    b = a.copy()
+    pos = envelope_in_place(a)
+    bits = envelope_in_place(b, packed=True)
+    np.testing.assert_array_equal(a, b)
+    r, c = np.divmod(np.arange(a.size), a.shape[1])
+    np.testing.assert_array_equal(bits[r, c], pos[r, c])

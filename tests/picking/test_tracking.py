@@ -5,6 +5,7 @@ import itertools
 import numpy as np
 import pytest
 
+from clinometry.picking.condition import SignBits
 from clinometry.picking.tracking import min_cost_path, track_paths
 
 
@@ -95,8 +96,12 @@ def test_track_paths_with_only_the_sign_of_the_amplitudes_gives_the_same_surface
     env = np.abs(amp)
     a = track_paths(env, amp, period_samples=12.0, max_jump_samples=3.0, n_paths=3)
     b = track_paths(env, amp > 0, period_samples=12.0, max_jump_samples=3.0, n_paths=3)
-    assert [p.polarity for p in a] == [p.polarity for p in b]
+    # and one bit per cell (numpy.packbits) the same again
+    c = track_paths(env, SignBits.from_bool(amp > 0), period_samples=12.0, max_jump_samples=3.0, n_paths=3)
+    assert [p.polarity for p in a] == [p.polarity for p in b] == [p.polarity for p in c]
     assert a[0].polarity == "peak" and a[1].polarity == "trough"
-    for p, q in zip(a, b):
+    for p, q, r in zip(a, b, c):
         np.testing.assert_array_equal(p.z_index, q.z_index)
         np.testing.assert_array_equal(p.quality, q.quality)
+        np.testing.assert_array_equal(p.z_index, r.z_index)
+        np.testing.assert_array_equal(p.quality, r.quality)
