@@ -32,7 +32,7 @@ from dataclasses import dataclass
 import numpy as np
 from scipy import ndimage
 
-from .condition import open_rectangle, quantile_sample
+from .condition import gaussian_blockwise, open_rectangle, quantile_sample
 
 __all__ = ["SlopeFace", "slope_faces"]
 
@@ -61,27 +61,12 @@ logger = logging.getLogger(__name__)
 #: cells per block of traces of the strength smoothing (speed only: a block
 #: stays in cache; the result is that of the whole image at once)
 _BLOCK_CELLS = 1 << 19
-#: Gaussian support in sigmas (the default truncation of scipy.ndimage)
-_TRUNCATE = 4.0
 
 
 def _smooth_blockwise(a, sigma):
-    """``scipy.ndimage.gaussian_filter(a, sigma)`` (float32) on blocks of traces.
+    """``scipy.ndimage.gaussian_filter(a, sigma)`` (float32) on blocks of traces (:func:`~clinometry.picking.condition.gaussian_blockwise`)."""
+    return gaussian_blockwise(lambda b: ndimage.gaussian_filter(b, sigma), (a,), sigma_traces=sigma[0])
 
-    Each block carries a margin of as many traces as the Gaussian's radius
-    along the line, so every output value is computed from the same inputs
-    in the same order as for the whole image; a block fits in cache, so a
-    long line costs the same per trace as a short one.
-    """
-    n, nz = a.shape
-    out = np.empty(a.shape, dtype=np.float32)
-    halo = int(_TRUNCATE * float(sigma[0]) + 0.5)
-    step = max(8, _BLOCK_CELLS // max(nz, 1))
-    for s0 in range(0, n, step):
-        s1 = min(n, s0 + step)
-        lo, hi = max(0, s0 - halo), min(n, s1 + halo)
-        out[s0:s1] = ndimage.gaussian_filter(a[lo:hi], sigma)[s0 - lo : s0 - lo + (s1 - s0)]
-    return out
 
 def _dip_masks(dip_deg, min_dip_deg):
     """``[dip >= min_dip_deg, dip <= -min_dip_deg]`` of an image read on blocks of traces.
