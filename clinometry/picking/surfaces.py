@@ -469,7 +469,13 @@ def pick_default(
     # horizons of the surfaces used by margins (whole path), then reflector pieces
     profile_ids = {m.profile_id for m in margins}
     for hid, f in streamline_horizons.items():
-        horizons.append(Horizon(hid, "clinoform", rows, np.interp(f.z_index, np.arange(z_axis.size), z_axis), f.quality, "unknown"))
+        # only over the leg it was measured on: beyond it the streamline runs
+        # on through incoherent or unrelated reflections, which would clutter
+        # the QC figure and the horizons file
+        a, b = sorted(f.candidate.leg)
+        tr = rows[a : b + 1]
+        zs_f = np.interp(f.z_index[tr], np.arange(z_axis.size), z_axis)
+        horizons.append(Horizon(hid, "clinoform", tr, zs_f, f.quality[tr], "unknown"))
     for rank, hid in sorted(used_ranks.items(), key=lambda kv: kv[1]):
         if not any(c.horizon_id == hid for mg in margins for c in mg.clinoforms):
             continue

@@ -108,3 +108,25 @@ def test_dip_field_clinoforms_are_distinct_and_ordered_oldest_first():
     # oldest first: seeds walk landward, so the list runs from the most landward seed
     assert dist[older[0].shelf_break.trace] < dist[older[-1].shelf_break.trace]
     assert any("older clinoform(s) resolved" in n for n in picks.notes)
+
+
+def test_dip_field_clinoform_horizons_cover_their_own_leg_and_hold_their_break_and_toe():
+    # the forward model's isolated platform (clinometry.synth): two margins facing away from
+    # each other; a streamline is written only over the leg it was measured on, so it cannot run
+    # across the other margin (common practice, no source: a horizon file holds what was picked)
+    sec, _ = make_line("isolated_platform", noise=False)
+    p = pick(sec, velocity=ConstantVelocity(2500.0))
+    by_id = {h.id: h for h in p.horizons}
+    checked = 0
+    for m in p.margins:
+        for c in m.clinoforms:
+            if c.source != "dip_field":
+                continue
+            tr = np.asarray(by_id[c.horizon_id].trace)
+            assert tr.size < sec.sizes["trace"]
+            assert np.all(np.diff(tr) == 1)
+            assert tr[0] <= c.shelf_break.trace <= tr[-1]
+            if c.toe is not None:
+                assert tr[0] <= c.toe.trace <= tr[-1]
+            checked += 1
+    assert checked >= 2
