@@ -37,7 +37,7 @@ resolved by the data and would only repeat one another.
 
 Each streamline is converted to depth and measured with the same curvature
 definition as the outer profile
-(:func:`~clinometry.picking.margins.profile_candidates`: break at the
+(:func:`~clinometry.picking.candidates.leg_bends`: break at the
 maximum of convex-up curvature landward of the steepest point, toe at the
 maximum of concave-up curvature basinward of it, after smoothing over one
 wavelength).  Because the outer profile and the older clinoforms share that
@@ -82,8 +82,9 @@ from dataclasses import dataclass
 import numpy as np
 from scipy import ndimage
 
-from .condition import weighted_gaussian
-from .margins import TOP_FLATNESS_FRACTION, profile_candidates, to_depth
+from ._blocks import weighted_gaussian
+from .candidates import find_legs, leg_bends
+from .vetting import TOP_FLATNESS_FRACTION
 
 __all__ = [
     "FORESET_DIP_FRACTION",
@@ -92,7 +93,7 @@ __all__ = [
     "FORESET_COHERENCE",
     "MAX_DIP_RATIO",
     "ForesetClinoform",
-    "foreset_clinoforms",
+    "older_clinoforms",
     "streamlines",
 ]
 
@@ -101,7 +102,7 @@ logger = logging.getLogger(__name__)
 #: a pixel belongs to a foreset when its coherent reflections dip basinward
 #: at least this fraction of the outer profile's steepest slope: the same
 #: fraction that separates a flat top from a slope in
-#: :mod:`~clinometry.picking.margins` (common practice, no source)
+#: :mod:`~clinometry.picking.vetting` (common practice, no source)
 FORESET_DIP_FRACTION = TOP_FLATNESS_FRACTION
 #: two reflections closer than a quarter of the dominant wavelength are not
 #: resolved (Widess 1973, from memory)
@@ -110,7 +111,7 @@ RESOLUTION_WAVELENGTHS = 0.25
 #: reflection (common practice, no source)
 MIN_COHERENCE = 0.3
 #: coherence of a foreset reflection where a seed is placed: the coherence
-#: the margin picker trusts a dip at (:mod:`~clinometry.picking.assemble`,
+#: the margin picker trusts a dip at (:mod:`~clinometry.picking.evidence.faces`,
 #: common practice, no source)
 FORESET_COHERENCE = 0.5
 #: an older foreset dips at most this multiple of the outer slope: the
@@ -136,14 +137,14 @@ class ForesetClinoform:
         Coherence of the reflections along it (0..1).
     seed : int
         Trace of its seed on the foreset.
-    candidate : MarginCandidate
+    bends : Bends
         Break, toe, steepest point and slope of its depth profile.
     """
 
     z_index: np.ndarray
     quality: np.ndarray
     seed: int
-    candidate: object
+    bends: object
 
 
 def _reach(zr, sigma_z, nz):
@@ -213,32 +214,15 @@ def streamlines(dip, seeds_trace, seeds_z, *, floor=None):
     return out
 
 
-def foreset_clinoforms(section, velocity, profile, profile_z_index, *, dip, dip_deg, coh, period_samples,
-                       wavelength_m, smoothing_m, min_relief_m, max_dip_samples):
+def older_clinoforms(images, margin):
     """Older clinoforms beneath an outer margin profile, oldest first, with notes.
 
     Parameters
     ----------
-    section : xarray.DataArray, dims ("trace", "z")
-    velocity : velocity model, float (m/s) or None
-        For depth conversion (see :func:`~clinometry.picking.margins.to_depth`).
-    profile : MarginCandidate
-        The outer profile of the margin (youngest clinoform).
-    profile_z_index : numpy.ndarray, shape (n_trace,)
-        Its surface, sub-sample index into z.
-    dip : numpy.ndarray, shape (n_trace, n_z), samples per trace
-        Structure-tensor dip.
-    dip_deg : numpy.ndarray, shape (n_trace, n_z), degrees
-        The same as true dip.
-    coh : numpy.ndarray, shape (n_trace, n_z)
-        Structure-tensor coherence.
-    period_samples : float
-        Dominant period in samples.
-    wavelength_m, smoothing_m, min_relief_m : float, m
-        Dominant wavelength, break/toe smoothing and smallest relief (as for
-        the outer profile).
-    max_dip_samples : float, samples per trace
-        Steepest dip a streamline may follow (the tracker's largest jump).
+    images : SectionImages
+    margin : Candidate
+        The outer profile of the margin (youngest clinoform), with a break
+        and a toe.
 
     Returns
     -------
@@ -248,77 +232,88 @@ def foreset_clinoforms(section, velocity, profile, profile_z_index, *, dip, dip_
         How many were resolved, and why streamlines were dropped.
     """
     notes = []
+    dip, coh = images.dip, images.coherence
     n, nz = dip.shape
-    dist = np.asarray(section["distance"].values, dtype=float)
-    dx = float(np.median(np.abs(np.diff(dist)))) or 1.0
-    sgn = 1 if profile.direction == "+" else -1
-    if profile.shelf_break is None or profile.toe is None:
+    dist = images.distance_m
+    dx = images.dx_m
+    b = margin.bends
+    sgn = 1 if margin.direction == "+" else -1
+    if b.shelf_break is None or b.toe is None:
         return [], ["older clinoforms not followed: the outer profile has no break or no toe"]
-    p = np.asarray(profile_z_index, dtype=float)
-    slope_deg = abs(float(profile.slope_max_deg))
+    # the outer profile on every trace (level beyond its window)
+    p = np.empty(n)
+    p[margin.lo:margin.hi] = margin.z_index
+    p[: margin.lo] = margin.z_index[0]
+    p[margin.hi:] = margin.z_index[-1]
+    slope_deg = abs(float(b.slope_max_deg))
     min_dip = FORESET_DIP_FRACTION * slope_deg
-    z_row = 0.5 * (p[profile.shelf_break] + p[profile.toe])
-    lo, hi = sorted((profile.shelf_break, profile.toe))
+    z_row = 0.5 * (p[b.shelf_break] + p[b.toe])
+    lo, hi = sorted((b.shelf_break, b.toe))
     cross = lo + int(np.argmin(np.abs(p[lo : hi + 1] - z_row)))
     # seeds a quarter wavelength apart normal to the foreset dip (Widess 1973)
-    resolution_m = RESOLUTION_WAVELENGTHS * wavelength_m
+    resolution_m = RESOLUTION_WAVELENGTHS * images.wavelength_m
     spacing = max(1, int(round(resolution_m / max(np.sin(np.radians(slope_deg)), 1e-3) / dx)))
     zr = int(round(np.clip(z_row, 0, nz - 1)))
-    sigma = (max(0.5, DIP_SMOOTHING_WAVELENGTHS * wavelength_m / dx), max(0.5, DIP_SMOOTHING_WAVELENGTHS * period_samples))
-    # the row is judged on the coherence-weighted average dip, so noise
-    # between the foreset reflections does not end the foreset region
-    # (only row zr of the smoothed images is needed: they are smoothed on the
-    # band of rows within the Gaussian's reach of it, the same numbers)
+    sigma = (max(0.5, DIP_SMOOTHING_WAVELENGTHS * images.wavelength_m / dx),
+             max(0.5, DIP_SMOOTHING_WAVELENGTHS * images.period_samples))
+    # the row is judged on the coherence-weighted average true dip, so noise
+    # between the foreset reflections does not end the foreset region (only
+    # the band of rows within the Gaussian's reach of row zr is smoothed)
     band, j = _reach(zr, sigma[1], nz)
-    row_dip = sgn * _weighted_dip(dip_deg[:, band], coh[:, band], sigma, 90.0)[:, j]
+    dip_deg = np.degrees(np.arctan(dip[:, band] * images.vertical_m[band][None, :])).astype(np.float32)
+    row_dip = sgn * _weighted_dip(dip_deg, coh[:, band], sigma, 90.0)[:, j]
     row_coh = ndimage.gaussian_filter(coh[:, band], sigma, mode="nearest")[:, j]
     row_ok = (row_dip >= min_dip) & (row_dip <= MAX_DIP_RATIO * slope_deg) & (row_coh >= FORESET_COHERENCE)
     # the walk ends at the landward end of the profile's leg (the platform
     # crest or the line end): beyond it lies another margin
-    end = min(profile.leg) if sgn > 0 else max(profile.leg)
+    end = b.leg.landward
     seeds = []
     i = cross - sgn * spacing
     while 0 <= i < n and sgn * (i - end) >= 0:
         # a seed on a foreset, beneath the outer profile, a resolution apart
-        if row_ok[i] and (not seeds or abs(i - seeds[-1]) >= spacing) and p[i] < z_row - 0.5 * period_samples:
+        if row_ok[i] and (not seeds or abs(i - seeds[-1]) >= spacing) and p[i] < z_row - 0.5 * images.period_samples:
             seeds.append(i)
         i -= sgn
     if not seeds:
-        return [], [f"no older clinoform beneath the margin facing {profile.direction}: no foreset reflections "
+        return [], [f"no older clinoform beneath the margin facing {margin.direction}: no foreset reflections "
                     f"landward of trace {cross} at z index {zr}"]
-    dip_s = _weighted_dip(dip, coh, sigma, max_dip_samples)
+    max_dip = float(np.max(np.abs(np.gradient(margin.z_index)))) + 1.0
+    dip_s = _weighted_dip(dip, coh, sigma, max_dip)
     seeds = seeds[::-1]  # oldest (most landward) first
     zs = streamlines(dip_s, seeds, [z_row] * len(seeds), floor=p)
     rows = np.arange(n)
-    z_axis = section["z"].values.astype(float)
     found = []
     for s, zi in zip(seeds, zs):
         q = ndimage.map_coordinates(coh, [rows.astype(float), np.clip(zi, 0, nz - 1)], order=1, mode="nearest")
-        z_units = np.interp(zi, np.arange(nz), z_axis)
-        depth = to_depth(section, rows, z_units, velocity)
-        cands = [c for c in profile_candidates(dist, depth, q, path_rank=-1, smoothing_m=smoothing_m, min_relief_m=min_relief_m)
-                 if c.direction == profile.direction and min(c.leg) <= s <= max(c.leg) and c.shelf_break is not None
-                 # the seed is on the foreset: basinward of the break
-                 and sgn * (s - c.shelf_break) > 0
-                 # on coherent reflections along the foreset and at the break
-                 and c.foreset_quality >= FORESET_COHERENCE and q[c.shelf_break] >= FORESET_COHERENCE]
-        if not cands:
+        depth = images.depth_of(rows, zi)
+        best = None
+        for leg in find_legs(dist, depth, smoothing_m=images.smoothing_m, min_relief_m=images.min_relief_m):
+            if leg.direction != margin.direction or not leg.start <= s <= leg.end:
+                continue
+            bb = leg_bends(dist, depth, leg, smoothing_m=images.smoothing_m)
+            if bb.shelf_break is None or sgn * (s - bb.shelf_break) <= 0:
+                continue
+            fs = np.arange(min(bb.shelf_break, bb.toe if bb.toe is not None else bb.outer_toe),
+                           max(bb.shelf_break, bb.toe if bb.toe is not None else bb.outer_toe) + 1)
+            if float(np.mean(q[fs])) < FORESET_COHERENCE or q[bb.shelf_break] < FORESET_COHERENCE:
+                continue
+            if best is None or abs(bb.steepest - s) < abs(best.steepest - s):
+                best = bb
+        if best is None:
             logger.debug("streamline from trace %d: no margin on it", s)
             continue
-        c = min(cands, key=lambda c: abs(c.steepest - s))
-        logger.debug("streamline from trace %d: break at trace %d, foreset coherence %.2f", s, c.shelf_break,
-                     c.foreset_quality)
-        found.append(ForesetClinoform(z_index=zi, quality=q, seed=int(s), candidate=c))
+        found.append(ForesetClinoform(z_index=zi, quality=q, seed=int(s), bends=best))
     # distinct clinoforms: breaks at least the resolution apart
     kept = []
-    def _at(t, zi):
-        return dist[t], float(to_depth(section, [t], [np.interp(zi, np.arange(nz), z_axis)], velocity)[0])
 
-    prof_brk = _at(profile.shelf_break, p[profile.shelf_break])
+    def _at(t, zi):
+        return dist[t], float(images.depth_of([t], [zi])[0])
+
+    prof_brk = _at(b.shelf_break, p[b.shelf_break])
     dropped = 0
     for f in found:
-        b = f.candidate.shelf_break
-        here = _at(b, f.z_index[b])
+        t = f.bends.shelf_break
+        here = _at(t, f.z_index[t])
         others = [prof_brk] + [k[1] for k in kept]
         if any(np.hypot(here[0] - o[0], here[1] - o[1]) < resolution_m for o in others):
             dropped += 1
@@ -326,7 +321,7 @@ def foreset_clinoforms(section, velocity, profile, profile_z_index, *, dip, dip_
         kept.append((f, here))
     lost = len(seeds) - len(found)
     notes.append(
-        f"margin facing {profile.direction}: {len(kept)} older clinoform(s) resolved from {len(seeds)} foreset "
+        f"margin facing {margin.direction}: {len(kept)} older clinoform(s) resolved from {len(seeds)} foreset "
         f"seed(s) {spacing * dx:.0f} m apart"
         + (f"; {lost} streamline(s) without a clinoform on coherent reflections" if lost else "")
         + (f"; {dropped} repeating a break within {resolution_m:.0f} m" if dropped else ""))

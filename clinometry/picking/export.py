@@ -11,7 +11,8 @@ from __future__ import annotations
 import numpy as np
 
 from ..section import check_section
-from .margins import to_depth
+from ..depth import horizon_to_depth
+from .section_images import velocity_model
 
 __all__ = ["HORIZON_COLUMNS", "horizon_rows"]
 
@@ -54,7 +55,10 @@ def horizon_rows(picks, section, velocity) -> list[dict]:
     for h in picks.horizons:
         if len(h) == 0:
             continue
-        depth = to_depth(section, h.trace, h.z, velocity)
+        if section.attrs.get("domain") == "depth":
+            depth = np.asarray(h.z, dtype=float)
+        else:
+            depth = horizon_to_depth(section, h.trace, h.z, velocity_model(velocity))
         for t, z, d, q in zip(h.trace.tolist(), h.z.tolist(), np.asarray(depth).tolist(), h.quality.tolist()):
             rows.append(
                 {

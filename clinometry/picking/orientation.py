@@ -37,7 +37,7 @@ import logging
 import numpy as np
 from skimage.feature import structure_tensor
 
-from .condition import quantile_sample
+from ._blocks import quantile_sample
 
 __all__ = ["reflector_orientation"]
 

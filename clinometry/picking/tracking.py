@@ -1,47 +1,70 @@
-"""Reflector surfaces as minimum-cost paths across the line.
+"""Reflector surfaces as minimal paths through the reflection-strength image.
 
-A reflector surface is traced as the path of one z per trace that
-crosses the whole line through strong, continuous reflections at the
-least total cost.  The cost of a cell is ``1 - e`` with ``e`` the
-normalised envelope (so peaks and troughs count alike and a polarity
-reversal does not break the surface); a step of ``s`` samples between
-neighbouring traces adds ``jump_cost * |s|``.  The optimum is found
-exactly by dynamic programming over traces (Bellman 1957; it is Dijkstra's
-(1959) shortest path on the trellis of traces x samples whose edges only
-go from one trace to the next), vectorised over z with a sliding-window
-minimum so that each trace is one numpy operation.
+A reflector surface is a curve with one z per trace that runs through strong
+reflections.  It is found as the *minimal path* (a discrete geodesic) of a
+cost image, the approach of Cohen & Kimmel (1997) for contours in images,
+restricted to curves that cross the line trace by trace so that the optimum
+is exact and found by dynamic programming over traces (Bellman 1957).
 
-Why a global path instead of local dip-guided tracking: steep foresets
-(30-60 degrees) shift by more than half a period from trace to trace, so
-the local dip is spatially aliased and a tracker that follows local
-slopes (e.g. Fomel 2010) loses them, while a path allowed to jump up to
-the steepest dip we accept still follows the foreset reflection trace by
-trace.  The allowed jump is computed from ``max_dip_deg``, the trace
-spacing and the velocity, not set in samples.
+Cost.  The envelope (instantaneous amplitude, Taner, Koehler & Sheriff 1979)
+is normalised to 0..1 between the image's median (the background: noise and
+weak layering) and its 99.5th percentile, so a peak and a trough count
+alike and a polarity reversal does not break a surface; the cost of a cell
+is one minus that strength.  A step from trace ``i - 1`` to trace ``i``
+costs its lateral part, the cell cost at trace ``i`` times one trace
+spacing, plus its vertical part: the line integral of the cost along the
+vertical run between the two picks, where each cell of the run costs the
+*lower* of the two traces' costs (the run is on reflection energy when
+either trace images the reflection there), times its length in metres.
 
-Several surfaces are found one after another: after each path the image
-is suppressed within half a dominant period of it, so the next path
-follows the next strongest surface.  Where a later path can only run along
-an earlier one (a clinoform that downlaps onto the basin floor, a topset
-that merges with the one above) its quality drops to 0 there: a
-termination (onlap, downlap, truncation) is where quality falls to zero.
+Why this cost.  A steep slope face (30-60 degrees) drops by more than half a
+period between neighbouring traces, but a migrated image stretches its
+wavelet along the trace by ``1 / cos(dip)`` (the reflection has the same
+width normal to the face), so the vertical run from one trace's pick to the
+next lies on the face's own reflection energy and costs little.  A step
+between two flat reflectors (a "staircase") runs through the weak image
+between them and costs its full length.  So the path follows a slope face
+down from the platform top to the basin floor, and does not jump to a
+reflector above or below through weak image, without any limit on the dip.
+Vertical metres through weak image cost :data:`VERTICAL_ANISOTROPY` times a
+lateral metre: reflections are continuous along the line over many
+wavelengths, while reflectors lie a fraction of a wavelength apart
+vertically (common practice, no source).
 
-To keep the cost linear in trace count and modest in sample count the
-search runs on an envelope max-pooled over z by a factor tied to the
-dominant period (about 1/8 period per cell); each picked cell is refined
-to the envelope maximum in the full-resolution trace with a parabolic
+Direction.  For the profile of a margin that deepens towards increasing
+trace index (``"+"``), steps that *rise* basinward cost
+:data:`AGAINST_FACTOR` times more (and the reverse for ``"-"``): a margin
+profile runs from the platform top down its slope to the basin floor, and
+the bias keeps it from climbing onto basin-fill or overburden reflectors
+that onlap the slope above the toe, while still allowing the small rises of
+a back-tilted basin floor or pick jitter.
+
+Efficiency.  The vertical part is a difference of cumulative sums along z,
+so the minimum over all predecessors of a cell splits into a running
+minimum from above and one from below: one trace costs O(n_z), whatever the
+dip (Felzenszwalb & Huttenlocher 2012 use the same idea for distance
+transforms).  The search runs on an envelope max-pooled over z to about
+:data:`CELLS_PER_PERIOD` cells per dominant period; each picked cell is
+refined to the envelope maximum at full resolution with a parabolic
 sub-sample fit.
+
+Several surfaces are found one after another: after each, the image within
+half a period of it is set to background, so the next path follows the next
+strongest surface.  :func:`path_through` gives the best path through a given
+point (the sum of a forward and a backward pass), used to extract the
+profile of a margin through its slope face.
 
 References
 ----------
-.. [1] Bellman, R. (1957). Dynamic Programming. Princeton University Press.
+.. [1] Cohen, L. D. & Kimmel, R. (1997). Global minimum for active contour
+   models: a minimal path approach. International Journal of Computer
+   Vision 24(1), 57-78. (from memory)
+.. [2] Bellman, R. (1957). Dynamic Programming. Princeton University Press.
    (from memory)
-.. [2] Dijkstra, E. W. (1959). A note on two problems in connexion with
-   graphs. Numerische Mathematik 1, 269-271. (from memory)
-.. [3] Fomel, S. (2010). Predictive painting of 3D seismic volumes.
-   Geophysics 75(4), A25-A30. (from memory)
-.. [4] Taner, Koehler & Sheriff (1979), Geophysics 44(6), 1041-1063
-   (envelope). (from memory)
+.. [3] Taner, M. T., Koehler, F. & Sheriff, R. E. (1979). Complex seismic
+   trace analysis. Geophysics 44(6), 1041-1063. (from memory)
+.. [4] Felzenszwalb, P. F. & Huttenlocher, D. P. (2012). Distance transforms
+   of sampled functions. Theory of Computing 8, 415-428. (from memory)
 """
 
 from __future__ import annotations
@@ -50,24 +73,108 @@ import logging
 from dataclasses import dataclass
 
 import numpy as np
-from numpy.lib.stride_tricks import sliding_window_view
 
-from .condition import SignBits, quantile_sample
+from ._blocks import pool_cells, quantile_sample
+from ._kernels import backtrack as _backtrack_kernel
+from ._kernels import dp_forward
 
-__all__ = ["TrackedPath", "min_cost_path", "track_paths"]
+__all__ = [
+    "Surface",
+    "CostImage",
+    "cost_image",
+    "minimal_path",
+    "track_surfaces",
+    "path_through",
+    "NORMALISING_PERCENTILE",
+    "CELLS_PER_PERIOD",
+    "VERTICAL_ANISOTROPY",
+    "AGAINST_FACTOR",
+]
 
 logger = logging.getLogger(__name__)
 
-#: envelope percentile that maps to a cost of 0 (common practice, no source)
+#: envelope percentile that maps to full strength (common practice, no source)
 NORMALISING_PERCENTILE = 99.5
-#: cells per dominant period in the coarse search (common practice, no source)
+#: cells per dominant period in the search (common practice, no source:
+#: an eighth of a period is within the pick error of a wavelet's peak)
 CELLS_PER_PERIOD = 8
-#: cells of dip-penalty terms made at once (a few MB of float32; speed only)
-_BLOCK_CELLS = 1 << 20
+#: a vertical metre through weak image costs this many lateral metres
+#: (reflections are laterally continuous over many wavelengths, vertically
+#: a fraction of one apart; our choice, no source)
+VERTICAL_ANISOTROPY = 4.0
+#: cost of a vertical metre along a perfect reflection, in lateral metres
+#: (a small regularisation so the path does not wander within a wavelet;
+#: our choice, no source)
+VERTICAL_FLOOR = 0.05
+#: a step that departs from the local reflection dip by one cell costs as
+#: much as this many cells of vertical travel through weak image, at full
+#: coherence (a surface follows its own reflection and does not cut across
+#: coherent layering; our choice, no source)
+DIP_WEIGHT = VERTICAL_ANISOTROPY
+#: steepest step between neighbouring traces (well above the steepest
+#: carbonate slopes of about 60 deg, Kenter 1990, from memory)
+MAX_DIP_DEG = 80.0
+#: a step against a margin's direction costs this many times more (our
+#: choice, no source: allows back-tilted floors and jitter, not a climb
+#: onto the fill)
+AGAINST_FACTOR = 4.0
 
 
 @dataclass(frozen=True)
-class TrackedPath:
+class CostImage:
+    """The pooled, normalised cost image of a section.
+
+    Attributes
+    ----------
+    cost : numpy.ndarray, float32, shape (n_trace, n_cell)
+        ``1 - strength``, strength the envelope above the background,
+        normalised to 0..1.
+    factor : int
+        z samples per cell.
+    vertical_m : numpy.ndarray, float64, shape (n_cell,)
+        Length of one cell in depth, in trace spacings (m / m).
+    scale, background : float
+        Envelope at full strength and the background strength (0..1 of
+        ``scale``).
+    dip, coherence : numpy.ndarray, float32, shape (n_trace, n_cell)
+        Reflection dip (cells per trace) and structure-tensor coherence,
+        pooled like the cost.
+    max_step : int
+        Largest change of cell between neighbouring traces
+        (:data:`MAX_DIP_DEG` at the shallowest cell height).
+    signed : numpy.ndarray, float32, shape (n_trace, n_cell), optional
+        Strength with the sign of the amplitude at the cell's envelope
+        maximum (-1..1).
+    """
+
+    cost: np.ndarray
+    factor: int
+    vertical_m: np.ndarray
+    scale: float
+    background: float
+    dip: np.ndarray = None
+    coherence: np.ndarray = None
+    max_step: int = 0
+    signed: np.ndarray = None
+
+    def with_polarity(self, polarity):
+        """The same image costed for one polarity: ``"peak"`` or ``"trough"`` strength only.
+
+        A surface of one polarity stays on its own wavelet lobe: along a
+        steep face the envelope is one broad band, but the peak and trough
+        lobes alternate across it.  ``"unknown"`` (or no signed image) gives
+        the envelope cost.
+        """
+        if self.signed is None or polarity not in ("peak", "trough"):
+            return self
+        sgn = np.float32(1.0 if polarity == "peak" else -1.0)
+        cost = np.subtract(np.float32(1.0), np.clip(sgn * self.signed, 0.0, 1.0)).astype(np.float32)
+        return CostImage(cost, self.factor, self.vertical_m, self.scale, self.background, self.dip,
+                         self.coherence, self.max_step, self.signed)
+
+
+@dataclass(frozen=True)
+class Surface:
     """One surface across the line.
 
     Attributes
@@ -75,308 +182,317 @@ class TrackedPath:
     z_index : numpy.ndarray, float, shape (n_trace,)
         Sub-sample position (index into the z axis) per trace.
     quality : numpy.ndarray, float, shape (n_trace,)
-        0..1: normalised envelope at the pick above the median (background)
-        level of the image; 0 where the path only runs along an earlier
-        path or through empty or noise-only image.
+        Strength (0..1 above the background) at the pick; 0 on dead traces.
+    support : numpy.ndarray, float, shape (n_trace,)
+        Mean strength along the step from the previous trace (its vertical
+        run included); ``support[0] = quality[0]``.
     polarity : str
         ``"peak"``, ``"trough"`` or ``"unknown"``.
     rank : int
-        Order in which the path was found (0 = strongest).
+        Order in which the surface was found (0 = strongest).
     """
 
     z_index: np.ndarray
     quality: np.ndarray
+    support: np.ndarray
     polarity: str
     rank: int
 
 
-def min_cost_path(cost, *, max_jump: int, jump_cost: float, dip=None, dip_cost=None) -> np.ndarray:
-    """Exact minimum-cost path with one cell per row (dynamic programming).
+def cost_image(envelope, *, period_samples: float, vertical_m, dip=None, coherence=None, dead=None,
+               positive=None) -> CostImage:
+    """Normalised, pooled cost image for the minimal paths.
 
     Parameters
     ----------
-    cost : array_like, shape (n_trace, n_z)
-        Non-negative cell costs.
-    max_jump : int
-        Largest allowed change of z index between neighbouring traces.
-    jump_cost : float
-        Added cost per index of change.
-    dip : array_like, shape (n_trace, n_z), optional
-        Local reflector dip (index change per trace) where the step starts.
-    dip_cost : array_like, shape (n_trace, n_z), optional
-        Added cost per index of disagreement between a step and ``dip``
-        (e.g. proportional to the local coherence).
+    envelope : numpy.ndarray, shape (n_trace, n_z)
+        Envelope of the balanced amplitudes.
+    period_samples : float
+        Dominant period in samples.
+    vertical_m : array_like, shape (n_z,) or scalar
+        Depth length of one sample in trace spacings (m per m).
+    dip, coherence : numpy.ndarray, shape (n_trace, n_z), optional
+        Structure-tensor dip (samples per trace) and coherence; without them
+        a step pays no dip term.
+    dead : array_like of bool, shape (n_trace,), optional
+        Dead traces: left out of the background level.
+    positive : SignBits or numpy.ndarray of bool, shape (n_trace, n_z), optional
+        Where the amplitudes are positive: gives the signed image.
+
+    Returns
+    -------
+    CostImage
+
+    Examples
+    --------
+    >>> env = np.zeros((3, 16), np.float32); env[:, 8] = 1.0
+    >>> c = cost_image(env, period_samples=8, vertical_m=0.1)
+    >>> c.factor, float(c.cost[0, 8])
+    (1, 0.0)
+    """
+    env = np.asarray(envelope, dtype=np.float32)
+    n, nz = env.shape
+    dead = np.zeros(n, bool) if dead is None else np.asarray(dead, bool)
+    factor = int(max(1, round(period_samples / CELLS_PER_PERIOD)))
+    live = np.flatnonzero(~dead) if (~dead).any() else np.arange(n)
+    scale = float(np.percentile(quantile_sample(env, rows=live), NORMALISING_PERCENTILE)) or 1.0
+    cost = pool_cells(env, factor, "max", "constant")
+    np.divide(cost, np.float32(scale), out=cost)
+    np.clip(cost, 0.0, 1.0, out=cost)
+    background = float(np.median(quantile_sample(cost, rows=live)))
+    # strength above the background, 0..1; the cost is one minus it
+    np.subtract(cost, np.float32(background), out=cost)
+    np.divide(cost, np.float32(max(1.0 - background, 1e-6)), out=cost)
+    np.clip(cost, 0.0, 1.0, out=cost)
+    np.subtract(np.float32(1.0), cost, out=cost)
+    vm = np.broadcast_to(np.asarray(vertical_m, dtype=np.float64), (nz,))
+    m = cost.shape[1]
+    cells = np.add.reduceat(vm, np.arange(0, nz, factor))[:m] if factor > 1 else vm.copy()
+    if dip is not None and coherence is not None:
+        pdip = pool_cells(np.asarray(dip, np.float32), factor, "mean", "edge")
+        np.divide(pdip, np.float32(factor), out=pdip)
+        pcoh = pool_cells(np.asarray(coherence, np.float32), factor, "mean", "edge")
+    else:
+        pdip = np.zeros_like(cost)
+        pcoh = np.zeros_like(cost)
+    max_step = int(np.ceil(np.tan(np.radians(MAX_DIP_DEG)) / max(float(np.min(cells)), 1e-9)))
+    max_step = int(min(max(max_step, 1), m - 1)) if m > 1 else 0
+    signed = None
+    if positive is not None:
+        signed = np.subtract(np.float32(1.0), cost)
+        neg = _pooled_sign(env, positive, factor, m) == 0
+        signed[neg] *= np.float32(-1.0)
+    return CostImage(cost=cost, factor=factor, vertical_m=np.asarray(cells, dtype=np.float64), scale=scale,
+                     background=background, dip=pdip, coherence=pcoh, max_step=max_step, signed=signed)
+
+
+def _pooled_sign(env, positive, factor, m):
+    """Sign (1 positive, 0 not) of the amplitude at each cell's envelope maximum."""
+    from ._blocks import row_blocks
+
+    n, nz = env.shape
+    out = np.empty((n, m), dtype=np.uint8)
+    pad = m * factor - nz
+    for rows in row_blocks(env):
+        e = env[rows]
+        pos = positive.rows(rows) if hasattr(positive, "rows") else np.asarray(positive[rows], bool)
+        if pad:
+            e = np.pad(e, ((0, 0), (0, pad)))
+            pos = np.pad(pos, ((0, 0), (0, pad)))
+        k = e.shape[0]
+        arg = np.argmax(e.reshape(k, m, factor), axis=2)
+        out[rows] = np.take_along_axis(pos.reshape(k, m, factor), arg[..., None], axis=2)[..., 0]
+    return out
+
+
+def _forward(image: CostImage, rows=slice(None), *, direction=None, reverse=False, start=None):
+    """Forward pass of the minimal path over a range of traces (reversed: walking towards lower index).
+
+    Returns (accumulated cost of the last row, back pointers).
+    """
+    cost = np.ascontiguousarray(image.cost[rows])
+    dip = image.dip[rows]
+    coh = np.ascontiguousarray(image.coherence[rows])
+    down, up = _factors(direction)
+    if reverse:
+        cost, coh = cost[::-1].copy(), coh[::-1].copy()
+        # walking the other way the dip changes sign, and rising basinward
+        # becomes rising landward
+        dip = -dip[::-1]
+        down, up = up, down
+    dip = np.ascontiguousarray(dip, dtype=np.float32)
+    n, m = cost.shape
+    back = np.empty((n, m), dtype=np.int32)
+    s0 = cost[0].astype(np.float64) if start is None else np.asarray(start, dtype=np.float64)
+    d = dp_forward(cost, dip, coh, image.vertical_m, int(image.max_step), VERTICAL_ANISOTROPY, VERTICAL_FLOOR,
+                   DIP_WEIGHT, float(down), float(up), s0, back)
+    return d, back
+
+
+def _backtrack(back, z_end):
+    return _backtrack_kernel(back, int(z_end))
+
+
+def minimal_path(image: CostImage, *, direction=None) -> np.ndarray:
+    """Cell index per trace of the minimal path across the whole line (free ends).
+
+    Parameters
+    ----------
+    image : CostImage
+    direction : {None, "+", "-"}
+        ``"+"``: rising towards increasing trace index costs
+        :data:`AGAINST_FACTOR` times more; ``"-"`` the reverse.
 
     Returns
     -------
     numpy.ndarray of int, shape (n_trace,)
-        z index of the path on each trace; start and end are free.
 
     Examples
     --------
-    >>> c = np.ones((4, 5)); c[0, 1] = c[1, 2] = c[2, 2] = c[3, 4] = 0.0
-    >>> min_cost_path(c, max_jump=2, jump_cost=0.1).tolist()
-    [1, 2, 2, 4]
+    A slope face joining a strong shallow reflector (left) to a deep one
+    (right); the path follows the face, not a corner:
+
+    >>> c = np.ones((8, 12), np.float32); c[:3, 2] = 0; c[5:, 9] = 0
+    >>> for i, z in zip(range(3, 5), (5, 7)): c[i, z] = 0.2
+    >>> img = CostImage(c, 1, np.full(12, 0.2), 1.0, 0.0, np.zeros_like(c), np.zeros_like(c), 6)
+    >>> minimal_path(img).tolist()
+    [2, 2, 2, 5, 7, 9, 9, 9]
     """
-    c = np.asarray(cost, dtype=np.float32)
-    k = int(max(0, min(max_jump, c.shape[1] - 1)))
-    padded = None
-    if dip is not None and dip_cost is not None:
-        padded = _pad_dip_terms(dip, dip_cost, k)
-    return _min_cost_path(c, k, float(jump_cost), padded)
+    d, back = _forward(image, direction=direction)
+    return _backtrack(back, int(np.argmin(d)))
 
 
-def _pad_dip_terms(dip, dip_cost, k):
-    """Dip and dip cost as float32, padded by ``k`` zero cells on both sides of z."""
-    out = []
-    for a in (dip, dip_cost):
-        a = np.asarray(a, dtype=np.float32)
-        p = np.zeros((a.shape[0], a.shape[1] + 2 * k), dtype=np.float32)
-        p[:, k : k + a.shape[1]] = a
-        out.append(p)
-    return tuple(out)
+def _factors(direction):
+    if direction == "+":
+        return 1.0, AGAINST_FACTOR
+    if direction == "-":
+        return AGAINST_FACTOR, 1.0
+    return 1.0, 1.0
 
 
-def _min_cost_path(c, k, jump_cost, padded, acc=None, *, one_minus=False):
-    """:func:`min_cost_path` on float32 costs; ``padded`` from :func:`_pad_dip_terms` or None.
-
-    With ``one_minus`` the costs are ``1 - c`` (float32), made for a block
-    of traces at a time instead of as a full-size array.
-
-    The forward pass keeps only the running minimum of each cell (a
-    reduction over the window axis, vectorised over z); the step taken is
-    found again only along the optimal path when back-tracking, with the
-    same float32 operations in the same order, so ties resolve as a full
-    arg-min table would (the first, i.e. largest, step wins).  ``acc``, a
-    float32 array of shape (n, m + 2k), may be given as workspace (reused
-    between calls: no fresh pages to fault in for every path).
-    """
-    n, m = c.shape
-    w = 2 * k + 1
-    steps = np.arange(k, -k - 1, -1).astype(np.float32)  # step z - z' for window row j
-    pen = (np.float32(jump_cost) * np.abs(steps)).astype(np.float32)
-    # accumulated cost, padded with inf by k cells on both sides of z
-    if acc is None or acc.shape != (n, m + 2 * k) or acc.dtype != np.float32:
-        acc = np.empty((n, m + 2 * k), dtype=np.float32)
-    acc.fill(np.inf)
-    acc_in = acc[:, k : k + m]
-    one = np.float32(1.0)
-    if one_minus:
-        np.subtract(one, c[0], out=acc_in[0])
-    else:
-        acc_in[0] = c[0]
-    win = sliding_window_view(acc, m, axis=1)  # (n, w, m): win[i, j, z] = acc of cell z + j - k
-    tot = np.empty((w, m), dtype=np.float32)
-    pen_c = pen[:, None]
-    best = np.empty(m, dtype=np.float32)
-    minimum = np.minimum.reduce
-    # the dip term does not depend on the accumulated cost: it is made for
-    # a block of traces at once, then added trace by trace
-    block = max(1, min(n - 1, _BLOCK_CELLS // max(w * m, 1)))
-    if one_minus:
-        cbuf = np.empty((block, m), dtype=np.float32)
-    if padded is not None:
-        pdip, pw = padded
-        win_dip = sliding_window_view(pdip, m, axis=1)  # (n, w, m)
-        win_w = sliding_window_view(pw, m, axis=1)
-        term = np.empty((block, w, m), dtype=np.float32)
-        steps_c = steps[None, :, None]
-    for i0 in range(1, n, block):
-        i1 = min(n, i0 + block)
-        if one_minus:
-            cb = np.subtract(one, c[i0:i1], out=cbuf[: i1 - i0])
+def _run_support(strength, path):
+    """Mean strength along each step: the pick and the vertical run from the previous pick."""
+    n = path.size
+    out = np.empty(n, dtype=np.float64)
+    out[0] = strength[0, path[0]]
+    for i in range(1, n):
+        a, b = sorted((int(path[i - 1]), int(path[i])))
+        if b - a <= 1:
+            out[i] = strength[i, path[i]]
         else:
-            cb = c[i0:i1]
-        if padded is not None:
-            t = term[: i1 - i0]
-            np.subtract(steps_c, win_dip[i0 - 1 : i1 - 1], out=t)
-            np.abs(t, out=t)
-            np.multiply(win_w[i0 - 1 : i1 - 1], t, out=t)
-        for i in range(i0, i1):
-            np.add(win[i - 1], pen_c, out=tot)
-            if padded is not None:
-                np.add(tot, term[i - i0], out=tot)
-            minimum(tot, axis=0, out=best)
-            np.add(cb[i - i0], best, out=acc_in[i])
-    # back-track: re-evaluate the (2k+1) candidate steps along the path only
-    path = np.empty(n, dtype=np.int64)
-    z = int(np.argmin(acc_in[-1]))
-    path[-1] = z
-    for i in range(n - 1, 0, -1):
-        vals = acc[i - 1, z : z + w] + pen  # candidates z - k .. z + k
-        if padded is not None:
-            vals += pw[i - 1, z : z + w] * np.abs(steps - pdip[i - 1, z : z + w])
-        z += int(vals.argmin()) - k
-        path[i - 1] = z
-    return path
-
-
-def _pool_cells(a, factor, how, pad_mode, out=None):
-    """Reduce ``factor`` z samples to one cell (``np.pad`` to a whole cell, reshape, reduce) without a padded copy.
-
-    The whole cells are reduced through a reshaped view; only the last,
-    incomplete cell is padded (with ``pad_mode``), so the values are those
-    of padding the whole array.  ``out``, shape (n, m) and the dtype of
-    ``a``, may be given (e.g. a view into a padded layout).
-    """
-    n, nz = a.shape
-    m = -(-nz // factor)
-    full = (nz // factor) * factor
-    if out is None:
-        out = np.empty((n, m), dtype=a.dtype)
-    reduce = getattr(np, how)
-    if full and factor >= 8:  # numpy sums 8 or more values pairwise: let it
-        reduce(a[:, :full].reshape(n, full // factor, factor), axis=2, out=out[:, : full // factor])
-    elif full:
-        # cell by cell over the `factor` samples, in the order np.max / np.mean
-        # reduce a short axis (first, then each next one), so the values are equal
-        head = out[:, : full // factor]
-        np.copyto(head, a[:, 0:full:factor])
-        for j in range(1, factor):
-            (np.maximum if how == "max" else np.add)(head, a[:, j:full:factor], out=head)
-        if how == "mean":
-            np.true_divide(head, factor, out=head, casting="unsafe")
-    if full < nz:
-        tail = np.pad(a[:, full:], ((0, 0), (0, m * factor - nz)), mode=pad_mode)
-        out[:, -1] = reduce(tail, axis=1)
+            run = np.maximum(strength[i - 1, a : b + 1], strength[i, a : b + 1])
+            out[i] = float(np.mean(run))
     return out
 
 
-def _refine(env, coarse, factor, scale=None):
-    """Full-resolution envelope maximum inside each coarse cell, sub-sample.
+def refine(envelope, cells, factor, scale=None, *, positive=None, polarity=None, rows=None):
+    """Full-resolution envelope maximum near each cell, with a parabolic sub-sample fit.
 
-    With ``scale`` the envelope is normalised as ``min(env / scale, 1)``
-    (float32) at the cells looked at only.
+    The maximum is searched in the cell and its two neighbours (the path
+    runs on cells of ``factor`` samples, so the reflection's peak may lie
+    just beyond its own cell); adjacent reflections are at least a quarter
+    period, two cells, apart.
+
+    With ``positive`` (sign image of the whole line), ``polarity`` (``"peak"``
+    or ``"trough"``) and ``rows`` (the line's traces of ``envelope``), only
+    samples of that polarity count.
+
+    Returns (sub-sample z index (float), integer sample index) per trace.
     """
+    env = envelope
     n, nz = env.shape
-    start = np.clip(coarse * factor, 0, nz - 1)
-    offs = np.arange(factor)
+    start = np.asarray(cells) * factor - factor
+    offs = np.arange(3 * factor)
     idx = np.clip(start[:, None] + offs[None, :], 0, nz - 1)
-    rows = np.arange(n)
-
-    def at(r, c):
-        v = env[r, c]
-        if scale is None:
-            return v
-        return np.clip(np.divide(v, scale, dtype=np.float32), 0.0, 1.0)
-
-    best = idx[rows, np.argmax(at(rows[:, None], idx), axis=1)]
+    rows_l = np.arange(n)
+    vals = env[rows_l[:, None], idx]
+    if positive is not None and polarity in ("peak", "trough"):
+        tr = (np.arange(n) if rows is None else np.asarray(rows))[:, None]
+        sgn = positive[np.broadcast_to(tr, idx.shape), idx]
+        vals = np.where(sgn == (polarity == "peak"), vals, 0.0)
+    rows = rows_l
+    # prefer the own cell among equal maxima (argmax takes the first)
+    best = idx[rows, np.argmax(vals, axis=1)]
     lo = np.clip(best - 1, 0, nz - 1)
     hi = np.clip(best + 1, 0, nz - 1)
-    y0, y1, y2 = at(rows, lo), at(rows, best), at(rows, hi)
+    y0, y1, y2 = (env[rows, k].astype(np.float64) for k in (lo, best, hi))
     den = y0 - 2.0 * y1 + y2
     with np.errstate(divide="ignore", invalid="ignore"):
         shift = np.where((den < 0) & (lo < best) & (best < hi), 0.5 * (y0 - y2) / den, 0.0)
     return best + np.clip(shift, -0.5, 0.5), best
 
 
-def track_paths(
-    envelope,
-    amplitude,
-    *,
-    period_samples: float,
-    max_jump_samples: float,
-    n_paths: int = 8,
-    jump_cost_per_period: float = 0.6,
-    dip_cost_per_period: float = 1.5,
-    dip=None,
-    coherence=None,
-    dead=None,
-) -> list[TrackedPath]:
-    """The ``n_paths`` strongest surfaces across the line, strongest first.
+def _polarity(positive, rows, best, quality):
+    strong = quality > 0.3
+    if not strong.any():
+        return "unknown"
+    frac = float(np.mean(positive[rows[strong], best[strong]]))
+    return "peak" if frac >= 0.7 else "trough" if frac <= 0.3 else "unknown"
+
+
+def track_surfaces(envelope, positive, image: CostImage, *, period_samples: float, n_surfaces: int = 12,
+                   dead=None) -> list[Surface]:
+    """The ``n_surfaces`` strongest surfaces across the line, strongest first.
 
     Parameters
     ----------
-    envelope : array_like, shape (n_trace, n_z)
-        Envelope of the balanced data.
-    amplitude : array_like, shape (n_trace, n_z)
-        Balanced data, or only where it is positive (bool, or
-        :class:`~clinometry.picking.condition.SignBits`; the same result, a
-        quarter or a 32nd of the memory): for the polarity of each surface.
+    envelope : numpy.ndarray, shape (n_trace, n_z)
+        Envelope of the balanced amplitudes (for the sub-sample refinement).
+    positive : numpy.ndarray of bool or SignBits, shape (n_trace, n_z)
+        Where the balanced amplitudes are positive (polarity of a surface).
+    image : CostImage
+        From :func:`cost_image`.
     period_samples : float
         Dominant period in samples.
-    max_jump_samples : float
-        Largest z change between neighbouring traces, in samples (from the
-        steepest accepted dip).
-    n_paths : int
-    jump_cost_per_period : float
-        Cost of a jump of one dominant period between neighbouring traces
-        (in units of the cost of one empty cell).
-    dip_cost_per_period : float
-        Cost of a step that departs by one period from the local reflector
-        dip, at full coherence.
-    dip, coherence : array_like, shape (n_trace, n_z), optional
-        Local dip (samples per trace) and coherence (0..1) from
-        :func:`~clinometry.picking.orientation.reflector_orientation`; a
-        step across coherent reflectors, against their dip, costs extra, so
-        a surface follows its own reflection instead of cutting across
-        layering.
+    n_surfaces : int
     dead : array_like of bool, shape (n_trace,), optional
         Dead (filled) traces get quality 0.
 
     Returns
     -------
-    list of TrackedPath
+    list of Surface
     """
-    env = np.asarray(envelope, dtype=np.float32)
-    # the sign may come packed, one bit per cell (condition.SignBits: memory)
-    amp = amplitude if isinstance(amplitude, SignBits) else np.asarray(amplitude)
-    if amp.dtype != bool:
-        amp = amp.astype(np.float32, copy=False)
-    n, nz = env.shape
-    scale = np.float32(float(np.percentile(quantile_sample(env), NORMALISING_PERCENTILE)) or 1.0)
-    factor = int(max(1, round(period_samples / CELLS_PER_PERIOD)))
-    m = int(np.ceil(nz / factor))
-    # the normalised envelope min(env / scale, 1) is not made as a full-size
-    # copy: dividing by a positive number and clipping are monotone, so the
-    # maximum of a cell is the normalised maximum (the same float32 values)
-    coarse = _pool_cells(env, factor, "max", "constant")
-    np.divide(coarse, scale, out=coarse)
-    np.clip(coarse, 0.0, 1.0, out=coarse)
-    k = int(np.ceil(max_jump_samples / factor)) + 1
-    jump_cost = jump_cost_per_period * factor / max(period_samples, 1.0)
-    half = max(1, int(round(0.5 * period_samples / factor)))
+    work = CostImage(image.cost.copy(), image.factor, image.vertical_m, image.scale, image.background,
+                     image.dip, image.coherence, image.max_step)
+    cost = work.cost
+    n, m = cost.shape
+    rows = np.arange(n)
     dead = np.zeros(n, bool) if dead is None else np.asarray(dead, bool)
+    half = max(1, int(round(0.5 * period_samples / image.factor)))
     offsets = np.arange(-half, half + 1)
-    row_of = np.broadcast_to(np.arange(n)[:, None], (n, offsets.size))
-    kk = int(max(0, min(k, m - 1)))
-    padded = None
-    if dip is not None and coherence is not None:
-        # pooled dip (cells per cell step, clipped to the allowed jump) and
-        # dip cost, each made in place in one pooled array and written into
-        # its padded layout, used by every path (no further copies)
-        padded = tuple(np.zeros((n, m + 2 * kk), dtype=np.float32) for _ in range(2))
-        p = _pool_cells(np.asarray(dip, np.float32), factor, "mean", "edge", out=padded[0][:, kk : kk + m])
-        np.divide(p, factor, out=p)
-        np.clip(p, -k, k, out=p)
-        p = _pool_cells(np.asarray(coherence, np.float32), factor, "mean", "edge", out=padded[1][:, kk : kk + m])
-        np.square(p, out=p)
-        np.multiply(p, dip_cost_per_period, out=p)
-        np.multiply(p, factor, out=p)
-        np.divide(p, max(period_samples, 1.0), out=p)
-        del p
-    # background level of the image: reflections must stand above it to
-    # count (noise at low SNR fills the whole image with envelope)
-    background = float(np.median(quantile_sample(coarse, rows=np.flatnonzero(~dead)))) if (~dead).any() else 0.0
-    # one accumulated-cost workspace for every path; the cell costs 1 - coarse
-    # are made block by block inside the search
-    workspace = np.empty((n, m + 2 * kk), dtype=np.float32)
     out = []
-    for rank in range(int(n_paths)):
-        cpath = _min_cost_path(coarse, kk, float(jump_cost), padded, workspace, one_minus=True)
-        q = coarse[np.arange(n), cpath].astype(np.float64)
-        q = np.clip((q - background) / max(1.0 - background, 1e-6), 0.0, 1.0)
+    for rank in range(int(n_surfaces)):
+        d, back = _forward(work)
+        cells = _backtrack(back, int(np.argmin(d)))
+        strength = 1.0 - cost
+        q = strength[rows, cells].astype(np.float64)
+        support = _run_support(strength, cells)
         q[dead] = 0.0
-        zi, best = _refine(env, cpath, factor, scale)
-        positive = amp[np.arange(n), best] > 0
-        strong = q > 0.3
-        frac = float(np.mean(positive[strong])) if strong.any() else 0.5
-        polarity = "peak" if frac >= 0.7 else "trough" if frac <= 0.3 else "unknown"
-        out.append(TrackedPath(z_index=zi.astype(np.float64), quality=q, polarity=polarity, rank=rank))
-        # suppress the cells within half a period of the path (in place)
-        band = cpath[:, None] + offsets[None, :]
-        inside = (band >= 0) & (band < m)
-        coarse[row_of[inside], band[inside]] = 0.0
-        if not coarse.any():
+        support[dead] = 0.0
+        zi, best = refine(envelope, cells, image.factor, image.scale)
+        out.append(Surface(z_index=zi.astype(np.float64), quality=q, support=support,
+                           polarity=_polarity(positive, rows, best, q), rank=rank))
+        band = np.clip(cells[:, None] + offsets[None, :], 0, m - 1)
+        cost[np.broadcast_to(rows[:, None], band.shape), band] = 1.0
+        if np.all(cost >= 1.0):
             break
     return out
+
+
+def path_through(image: CostImage, trace: int, cell: int, *, direction=None, lo: int = 0, hi: int | None = None):
+    """The minimal path through one cell, over traces ``lo .. hi - 1``.
+
+    The sum of the best path arriving at the cell from the left and the best
+    path leaving it to the right (each a forward pass, the second on the
+    reversed rows), so the result is the exact minimal path constrained to
+    pass through ``(trace, cell)``.
+
+    Parameters
+    ----------
+    image : CostImage
+    trace, cell : int
+        The point (trace index, cell index) the path must pass through.
+    direction : {None, "+", "-"}
+        As in :func:`minimal_path`.
+    lo, hi : int
+        Trace window.
+
+    Returns
+    -------
+    numpy.ndarray of int, shape (hi - lo,)
+        Cell index per trace of the window.
+
+    Examples
+    --------
+    >>> c = np.ones((6, 10), np.float32); c[:, 2] = 0.0; c[:, 7] = 0.0
+    >>> img = CostImage(c, 1, np.ones(10), 1.0, 0.0, np.zeros_like(c), np.zeros_like(c), 9)
+    >>> path_through(img, 3, 7).tolist()
+    [7, 7, 7, 7, 7, 7]
+    """
+    hi = image.cost.shape[0] if hi is None else hi
+    t = int(trace)
+    _, back_l = _forward(image, slice(lo, t + 1), direction=direction)
+    path_l = _backtrack(back_l, cell)
+    _, back_r = _forward(image, slice(t, hi), direction=direction, reverse=True)
+    path_r = _backtrack(back_r, cell)[::-1]
+    return np.concatenate([path_l, path_r[1:]])

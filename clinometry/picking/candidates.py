@@ -1,0 +1,472 @@
+"""Margin candidates on a depth profile: legs, steepest point, shelf break and toe.
+
+A surface converted to depth is a profile ``depth(distance)``.  A margin is
+a *leg* of it: a stretch that deepens by at least the minimum relief from a
+flatter top to a flatter floor.  Every measure here is geometric and uses
+only the profile.  Whether the image supports the leg (reflections, onlap,
+a platform top) is judged by :mod:`clinometry.picking.evidence`.
+
+1. **Legs.**  The profile, median-filtered over one smoothing length (single
+   trace outliers) and Gaussian-smoothed over :data:`LEG_SMOOTHING_FACTOR`
+   smoothing lengths, is cut at its significant depth extrema
+   (:func:`scipy.signal.find_peaks`, prominence half the minimum relief).
+   A leg between a shallow and a deep extremum with at least the minimum
+   relief is a candidate, facing the way it deepens (``"+"`` towards
+   increasing trace index).  The two flanks of a mound, the two margins of
+   an isolated platform and two flanks facing each other across a saddle
+   are legs of their own, whatever the width of the top or the saddle.
+2. **Steepest point, break and toe.**  On the profile smoothed over the
+   smoothing length (one dominant wavelength by default, at least an eighth
+   of the slope's width so that a ramp is judged at its own scale), the
+   steepest point is the maximum basinward gradient inside the leg; the
+   shelf break is the maximum of convex-up curvature
+   ``kappa = d'' / (1 + d'^2)^(3/2)`` between the landward end of the leg and
+   the steepest point, the toe the maximum of concave-up curvature between
+   the steepest point and the basinward end (both ends padded by the
+   smoothing support).  This is the geometric definition of break and toe
+   of clinoform rollover points (Adams & Schlager 2000; Pirmez, Pratson &
+   Steckler 1998).
+3. **Distinct break.**  A bend is a shelf break only when it is sharp: its
+   curvature reaches :data:`DISTINCT_BEND_PER_KM` (a change of slope of about
+   6 deg within 1 km).  A profile that descends gently over many kilometres
+   bends far less (a 1 deg ramp over 2 km: 0.01/km) and has no shelf break
+   and no toe: a ramp (Ahr 1973; Burchette & Wright 1992); its break and toe
+   are reported missing with that reason and its slope is measured over the
+   whole leg.
+
+References
+----------
+.. [1] Adams, E. W. & Schlager, W. (2000). Basic types of submarine slope
+   curvature. Journal of Sedimentary Research 70(4), 814-828. (from memory)
+.. [2] Pirmez, C., Pratson, L. F. & Steckler, M. S. (1998). Clinoform
+   development by advection-diffusion of suspended sediment. Journal of
+   Geophysical Research 103(B10), 24141-24157. (from memory)
+.. [3] Ahr, W. M. (1973). The carbonate ramp: an alternative to the shelf
+   model. Transactions of the Gulf Coast Association of Geological
+   Societies 23, 221-225. (from memory)
+.. [4] Burchette, T. P. & Wright, V. P. (1992). Carbonate ramp depositional
+   systems. Sedimentary Geology 79, 3-57. (from memory)
+"""
+
+from __future__ import annotations
+
+import logging
+from dataclasses import dataclass
+
+import numpy as np
+from scipy import ndimage, signal
+
+__all__ = [
+    "Leg",
+    "Bends",
+    "smooth_profile",
+    "find_legs",
+    "leg_bends",
+    "LEG_SMOOTHING_FACTOR",
+    "DISTINCT_BEND_PER_KM",
+    "SLOPE_WIDTH_SMOOTHING_DIVISOR",
+    "Candidate",
+    "propose_candidates",
+]
+
+logger = logging.getLogger(__name__)
+
+#: legs are cut at extrema of the profile smoothed over this many smoothing
+#: lengths, so wiggles of a wavelet or two do not split a slope (our choice,
+#: no source)
+LEG_SMOOTHING_FACTOR = 4.0
+#: a bend is a distinct shelf break (or toe) when its curvature reaches this,
+#: per km: a change of slope of about 6 deg within 1 km (the same bound as
+#: the classifier's sharp break; common practice, no source)
+DISTINCT_BEND_PER_KM = 0.1
+#: the curvature smoothing is at least the slope width divided by this
+#: (a slope is judged at its own scale; common practice, no source)
+SLOPE_WIDTH_SMOOTHING_DIVISOR = 8.0
+#: the slope zone of a leg: where it gains the middle of its relief (from the
+#: 10th to the 90th percentile; our choice, no source)
+RELIEF_ZONE = (0.1, 0.9)
+#: a profile has flattened (top or floor reached) where its basinward gradient
+#: falls below this fraction of the steepest (our choice, no source)
+FLAT_FRACTION = 0.1
+#: a bend of a Gaussian-smoothed kink spreads over about +-2 sigma
+#: (property of the Gaussian; the search reaches that far beyond the flat)
+BEND_SUPPORT_SIGMAS = 2.0
+
+
+@dataclass(frozen=True)
+class Leg:
+    """A stretch of a profile between a shallow and a deep extremum.
+
+    Attributes
+    ----------
+    direction : {"+", "-"}
+        The way it deepens: ``"+"`` towards increasing trace index.
+    start, end : int
+        Trace indices of its extrema (``start < end``).
+    relief_m : float
+        Depth difference of the extrema on the leg-smoothed profile (> 0).
+    """
+
+    direction: str
+    start: int
+    end: int
+    relief_m: float
+
+    @property
+    def landward(self) -> int:
+        return self.start if self.direction == "+" else self.end
+
+    @property
+    def basinward(self) -> int:
+        return self.end if self.direction == "+" else self.start
+
+
+@dataclass(frozen=True)
+class Bends:
+    """Steepest point, break and toe of one leg (trace indices).
+
+    ``shelf_break`` / ``toe`` are None when there is no distinct bend, and
+    the reasons say why.  ``break_curvature_per_km`` and
+    ``toe_curvature_per_km`` are the signed bend sharpness (positive for
+    the expected shapes).
+    """
+
+    leg: Leg
+    steepest: int
+    shelf_break: int | None
+    toe: int | None
+    break_reason: str
+    toe_reason: str
+    slope_max_deg: float
+    sigma_traces: float
+    break_curvature_per_km: float
+    toe_curvature_per_km: float
+    #: the leg-scale bend points used for the relief and flatness measures,
+    #: present even where the bend is not distinct
+    outer_break: int = 0
+    outer_toe: int = 0
+
+
+def _spacing(x):
+    return float(np.median(np.abs(np.diff(x)))) if x.size > 1 else 1.0
+
+
+def smooth_profile(depth_m, sigma_traces: float):
+    """Median over about one sigma (odd, >= 3 traces), then a Gaussian of ``sigma_traces``.
+
+    Examples
+    --------
+    >>> d = np.r_[np.zeros(20), 100.0, np.zeros(20)]
+    >>> float(smooth_profile(d, 1.0).max()) < 1.0
+    True
+    """
+    d = np.asarray(depth_m, dtype=float)
+    size = int(max(3, 2 * round(sigma_traces / 2) + 1))
+    med = ndimage.median_filter(d, size=min(size, max(1, d.size | 1)), mode="nearest")
+    return ndimage.gaussian_filter1d(med, max(float(sigma_traces), 0.5), mode="nearest")
+
+
+def find_legs(distance_m, depth_m, *, smoothing_m: float, min_relief_m: float) -> list[Leg]:
+    """Legs of a profile between significant extrema with at least the minimum relief.
+
+    Parameters
+    ----------
+    distance_m, depth_m : array_like, shape (n,), m
+    smoothing_m : float, m
+        Smoothing length (sigma); legs use :data:`LEG_SMOOTHING_FACTOR` times it.
+    min_relief_m : float, m
+
+    Returns
+    -------
+    list of Leg, ordered along the line
+
+    Examples
+    --------
+    A mound: up (facing "-") then down (facing "+").
+
+    >>> x = np.arange(300) * 25.0
+    >>> d = 800 - 200 * np.exp(-0.5 * ((x - 3750) / 700) ** 2)
+    >>> [(g.direction, g.start, g.end) for g in find_legs(x, d, smoothing_m=50, min_relief_m=50)]
+    [('-', 0, 150), ('+', 150, 299)]
+    """
+    x = np.asarray(distance_m, dtype=float)
+    d = np.asarray(depth_m, dtype=float)
+    n = d.size
+    if n < 5:
+        return []
+    sig = max(smoothing_m / _spacing(x), 0.5)
+    d_leg = ndimage.gaussian_filter1d(smooth_profile(d, sig), LEG_SMOOTHING_FACTOR * sig, mode="nearest")
+    prom = 0.5 * min_relief_m
+    hi, _ = signal.find_peaks(d_leg, prominence=prom)
+    lo, _ = signal.find_peaks(-d_leg, prominence=prom)
+    ext = sorted({0, n - 1, *map(int, hi), *map(int, lo)})
+    legs = []
+    for a, b in zip(ext[:-1], ext[1:]):
+        rel = float(d_leg[b] - d_leg[a])
+        if b - a < 2 or abs(rel) < min_relief_m:
+            continue
+        legs.append(Leg("+" if rel > 0 else "-", int(a), int(b), abs(rel)))
+    return legs
+
+
+def _flattened(gb, p, step, end, reach):
+    """Trace ``reach`` beyond the first one, walking from ``p`` by ``step``, where
+    the basinward gradient has fallen below :data:`FLAT_FRACTION` of that at ``p``
+    (or ``end``)."""
+    k = p
+    while k != end and gb[k] > FLAT_FRACTION * gb[p]:
+        k += step
+    k += step * reach
+    return int(min(k, end) if step > 0 else max(k, end))
+
+
+def _relief_zone(x, d, leg):
+    """Traces where a leg's monotone envelope passes :data:`RELIEF_ZONE` of its relief (landward one first)."""
+    seg = d[leg.start : leg.end + 1]
+    if leg.direction == "-":
+        seg = seg[::-1]
+    env = np.maximum.accumulate(seg)
+    top, bot = float(env[0]), float(env[-1])
+    rel = max(bot - top, 1e-9)
+    i0 = int(np.searchsorted(env, top + RELIEF_ZONE[0] * rel))
+    i1 = int(np.searchsorted(env, top + RELIEF_ZONE[1] * rel))
+    i1 = max(i1, i0)
+    if leg.direction == "+":
+        return leg.start + i0, leg.start + min(i1, seg.size - 1)
+    return leg.end - i0, leg.end - min(i1, seg.size - 1)
+
+
+def _derivatives(d, x):
+    g = np.gradient(d, x)
+    k = np.gradient(g, x) / (1.0 + g * g) ** 1.5
+    return g, k
+
+
+def leg_bends(distance_m, depth_m, leg: Leg, *, smoothing_m: float) -> Bends:
+    """Steepest point, shelf break and toe of a leg by curvature.
+
+    Parameters
+    ----------
+    distance_m, depth_m : array_like, shape (n,), m
+        The whole profile (the leg is searched with a padding of the
+        smoothing support on both sides).
+    leg : Leg
+    smoothing_m : float, m
+        Smoothing length (sigma), at least an eighth of the slope width is used.
+
+    Returns
+    -------
+    Bends
+
+    Examples
+    --------
+    >>> x = np.arange(200) * 25.0
+    >>> d = 500 + np.clip((x - 2000) * np.tan(np.radians(20)), 0, 300)
+    >>> leg = find_legs(x, d, smoothing_m=50, min_relief_m=50)[0]
+    >>> b = leg_bends(x, d, leg, smoothing_m=50)
+    >>> (b.shelf_break, b.toe, round(b.slope_max_deg))
+    (80, 113, 20)
+    """
+    x = np.asarray(distance_m, dtype=float)
+    d = np.asarray(depth_m, dtype=float)
+    n = d.size
+    dx = _spacing(x)
+    sig = max(smoothing_m / dx, 0.5)
+    sgn = 1.0 if leg.direction == "+" else -1.0
+    base = smooth_profile(d, sig)
+    # the slope zone: where the leg gains the middle RELIEF_ZONE of its relief
+    # (monotone envelope of the profile, so wiggles do not count); its width
+    # sets the scale at which the slope is judged: a ramp over its kilometres,
+    # a rimmed shelf over its wavelength
+    z0, z1 = _relief_zone(x, base, leg)
+    width = abs(x[z1] - x[z0]) / (RELIEF_ZONE[1] - RELIEF_ZONE[0])
+    sig_leg = max(sig, width / (SLOPE_WIDTH_SMOOTHING_DIVISOR * dx))
+    prof = base if sig_leg <= sig else ndimage.gaussian_filter1d(smooth_profile(d, sig), sig_leg, mode="nearest")
+    g, kappa = _derivatives(prof, x)
+    gb = sgn * g
+    pad = int(np.ceil(2 * sig_leg))
+    lo, hi = max(0, leg.start - pad), min(n - 1, leg.end + pad)
+    a0, a1 = sorted((z0, z1))
+    p = int(a0 + np.argmax(gb[a0 : a1 + 1]))
+    slope_max = float(np.degrees(np.arctan(max(gb[p], 0.0))))
+    # the bends of this slope are the nearest ones: the search on each side
+    # stops one bend support beyond where the profile has flattened
+    # (a platform top or basin floor), so the far margin of an isolated
+    # platform or the far flank of a saddle is never taken
+    reach = int(np.ceil(BEND_SUPPORT_SIGMAS * sig_leg))
+    lo = max(lo, _flattened(gb, p, -1, lo, reach))
+    hi = min(hi, _flattened(gb, p, +1, hi, reach))
+    land = np.arange(lo, p + 1) if leg.direction == "+" else np.arange(p, hi + 1)
+    basin = np.arange(p, hi + 1) if leg.direction == "+" else np.arange(lo, p + 1)
+    # the bend must belong to this leg: beyond the leg's extremum the padding
+    # only lets a bend that the smoothing moved outside it be found
+    kb = kappa[land]
+    kt = -kappa[basin]
+    brk = int(land[np.argmax(kb)]) if land.size else None
+    toe = int(basin[np.argmax(kt)]) if basin.size else None
+    kb_max = float(kappa[brk]) * 1000.0 if brk is not None else 0.0
+    kt_max = float(-kappa[toe]) * 1000.0 if toe is not None else 0.0
+    outer_b = brk if brk is not None and brk != p else leg.landward
+    outer_t = toe if toe is not None and toe != p else leg.basinward
+    z_land, z_basin = (z0, z1)
+    break_reason = toe_reason = ""
+    if brk is None or brk == p or kb_max <= 0:
+        break_reason = "no convex-up bend landward of the steepest point"
+        brk = None
+    elif kb_max < DISTINCT_BEND_PER_KM:
+        break_reason = (f"no distinct shelf break: the profile bends by at most {kb_max:.3f}/km landward of its "
+                        f"steepest point (a distinct break bends by {DISTINCT_BEND_PER_KM}/km or more), as on a ramp")
+        brk = None
+    if toe is None or toe == p or kt_max <= 0:
+        toe_reason = "no concave-up bend basinward of the steepest point (toe beyond the line or no basin floor)"
+        toe = None
+    elif kt_max < DISTINCT_BEND_PER_KM or brk is None and break_reason.startswith("no distinct"):
+        toe_reason = (f"no distinct toe: the profile flattens by at most {kt_max:.3f}/km basinward of its steepest "
+                      f"point, as on a ramp")
+        toe = None
+    if brk is None:
+        # no distinct break (a ramp): its top is read landward of where the
+        # leg starts to gain relief
+        outer_b = z_land
+    if toe is None:
+        outer_t = z_basin
+    return Bends(leg=leg, steepest=p, shelf_break=brk, toe=toe, break_reason=break_reason, toe_reason=toe_reason,
+                 slope_max_deg=slope_max, sigma_traces=float(sig_leg), break_curvature_per_km=kb_max,
+                 toe_curvature_per_km=kt_max, outer_break=int(outer_b), outer_toe=int(outer_t))
+
+
+@dataclass(frozen=True)
+class Candidate:
+    """A margin candidate: its profile through the slope, its leg and bends.
+
+    Attributes
+    ----------
+    direction : {"+", "-"}
+    lo, hi : int
+        Trace window of the profile (``hi`` exclusive).
+    z_index : numpy.ndarray, shape (hi - lo,)
+        Sub-sample z index of the profile per trace of the window.
+    depth_m : numpy.ndarray, shape (hi - lo,)
+    quality, support : numpy.ndarray, shape (hi - lo,)
+        Reflection strength at the pick and along the step from the previous
+        trace (0..1 above the background).
+    bends : Bends
+        Trace indices relative to the whole line.
+    source_rank : int
+        Rank of the tracked surface on which the candidate was first seen.
+    """
+
+    direction: str
+    lo: int
+    hi: int
+    z_index: np.ndarray
+    depth_m: np.ndarray
+    quality: np.ndarray
+    support: np.ndarray
+    bends: Bends
+    source_rank: int
+
+    def at(self, trace):
+        """Index into the window arrays of a trace index of the line."""
+        return np.asarray(trace) - self.lo
+
+    @property
+    def shelf_break(self):
+        return self.bends.shelf_break
+
+    @property
+    def toe(self):
+        return self.bends.toe
+
+
+#: the profile of a candidate is extracted over its leg and this many leg
+#: widths (at least PROFILE_MARGIN_M) on each side, so its platform top and
+#: basin floor are seen (our choice, no source)
+PROFILE_MARGIN_LEGS = 1.0
+PROFILE_MARGIN_M = 3000.0
+
+
+def _local_legs(x, d, smoothing_m, min_relief_m, p, direction):
+    """The leg of a re-extracted profile that holds trace ``p`` and faces ``direction``."""
+    legs = [g for g in find_legs(x, d, smoothing_m=smoothing_m, min_relief_m=min_relief_m) if g.direction == direction]
+    inside = [g for g in legs if g.start <= p <= g.end]
+    if inside:
+        return inside[0]
+    if not legs:
+        return None
+    near = min(legs, key=lambda g: min(abs(g.start - p), abs(g.end - p)))
+    return near if min(abs(near.start - p), abs(near.end - p)) <= 2 else None
+
+
+def propose_candidates(images, surfaces) -> list[Candidate]:
+    """Margin candidates from the legs of every tracked surface, each re-extracted through its slope.
+
+    A leg found on a tracked surface says where a slope may be; the surface
+    itself may have been pushed off the platform top by an earlier, stronger
+    surface.  So each leg's profile is extracted again on the full image as
+    the minimal path through the leg's steepest point, biased against
+    rising basinward (:func:`~clinometry.picking.tracking.path_through`):
+    the platform top landward of it, the slope, the basin floor beyond.
+    Its own leg and bends are then measured on that profile.  Candidates
+    whose profiles share the steepest point are one candidate.
+
+    Parameters
+    ----------
+    images : SectionImages
+    surfaces : list of Surface
+
+    Returns
+    -------
+    list of Candidate
+    """
+    from .tracking import _run_support, path_through, refine
+
+    x = images.distance_m
+    n = images.n_trace
+    img = images.cost
+    strength = 1.0 - img.cost
+    out = []
+    seen = []
+    for s in surfaces:
+        rows = np.arange(n)
+        d = images.depth_of(rows, s.z_index)
+        for leg in find_legs(x, d, smoothing_m=images.smoothing_m, min_relief_m=images.min_relief_m):
+            b0 = leg_bends(x, d, leg, smoothing_m=images.smoothing_m)
+            p = b0.steepest
+            width = leg.end - leg.start
+            pad = int(max(PROFILE_MARGIN_LEGS * width, PROFILE_MARGIN_M / images.dx_m))
+            lo, hi = max(0, leg.start - pad), min(n, leg.end + pad + 1)
+            cell = int(images.cells(s.z_index[p]))
+            pol_img = img.with_polarity(s.polarity)
+            cells = path_through(pol_img, p, cell, direction=leg.direction, lo=lo, hi=hi)
+            zi, _ = refine(images.envelope[lo:hi], cells, img.factor, img.scale, positive=images.positive,
+                           polarity=s.polarity, rows=np.arange(lo, hi))
+            dep = images.depth_of(np.arange(lo, hi), zi)
+            xw = x[lo:hi]
+            g = _local_legs(xw, dep, images.smoothing_m, images.min_relief_m, p - lo, leg.direction)
+            if g is None:
+                logger.debug("surface %d leg %d-%d: re-extracted profile has no leg there", s.rank, leg.start, leg.end)
+                continue
+            bw = leg_bends(xw, dep, g, smoothing_m=images.smoothing_m)
+            key = (leg.direction, bw.steepest + lo, float(zi[bw.steepest]))
+            if any(k[0] == key[0] and abs(k[1] - key[1]) <= max(2.0, images.wavelength_m / images.dx_m)
+                   and abs(k[2] - key[2]) <= images.period_samples for k in seen):
+                continue
+            seen.append(key)
+            pstrength = 1.0 - pol_img.cost
+            q = pstrength[np.arange(lo, hi), cells].astype(float)
+            sup = _run_support(pstrength[lo:hi], cells)
+            q[images.dead[lo:hi]] = 0.0
+            sup[images.dead[lo:hi]] = 0.0
+            out.append(Candidate(direction=leg.direction, lo=lo, hi=hi, z_index=zi.astype(float), depth_m=dep,
+                                 quality=q, support=sup, bends=_shift(bw, lo), source_rank=s.rank))
+    return out
+
+
+def _shift(b: Bends, lo: int) -> Bends:
+    leg = Leg(b.leg.direction, b.leg.start + lo, b.leg.end + lo, b.leg.relief_m)
+    return Bends(leg=leg, steepest=b.steepest + lo, shelf_break=None if b.shelf_break is None else b.shelf_break + lo,
+                 toe=None if b.toe is None else b.toe + lo, break_reason=b.break_reason, toe_reason=b.toe_reason,
+                 slope_max_deg=b.slope_max_deg, sigma_traces=b.sigma_traces,
+                 break_curvature_per_km=b.break_curvature_per_km, toe_curvature_per_km=b.toe_curvature_per_km,
+                 outer_break=b.outer_break + lo, outer_toe=b.outer_toe + lo)

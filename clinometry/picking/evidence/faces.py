@@ -1,0 +1,113 @@
+"""Evidence of a slope face: reflection energy along the slope and reflection dip that agrees with it.
+
+Along a real slope the profile follows the face's own reflection: the
+vertical run between neighbouring picks lies on reflection energy (a
+migrated steep reflection is stretched along the trace by ``1 / cos(dip)``),
+and where the dip is not spatially aliased the structure-tensor dip of the
+reflection agrees with the profile's.  A step between two flat reflectors
+(a staircase) crosses weak image, and where it crosses layering the
+reflections there are flat while the profile dips.
+
+Spatial aliasing: a reflection that moves by more than half a period from
+one trace to the next cannot have its dip measured from neighbouring traces
+(the Nyquist condition on the lateral sampling of a dipping event; Yilmaz
+2001).  Such traces count for the energy but not for the dip.
+
+References
+----------
+.. [1] Yilmaz, O. (2001). Seismic Data Analysis, 2nd ed., SEG (spatial
+   aliasing of dipping events). (from memory)
+"""
+
+from __future__ import annotations
+
+import numpy as np
+
+from ._regions import face_traces
+from .record import Evidence, mean_score, ramp
+
+__all__ = ["slope_face", "ALIASED_PERIODS", "DIP_TOLERANCE", "MIN_COHERENCE"]
+
+#: apparent dips above this many periods per trace are aliased (Nyquist)
+ALIASED_PERIODS = 0.5
+#: a reflection dip agrees with the profile when within this fraction of it
+#: (our choice, no source)
+DIP_TOLERANCE = 0.5
+#: structure-tensor coherence above which a dip is read (our choice, no source)
+MIN_COHERENCE = 0.5
+
+
+def _path_dip(z_index):
+    g = np.gradient(np.asarray(z_index, dtype=float))
+    return g
+
+
+def _run_gaps(images, c, traces):
+    """Share of the cells of the vertical runs between neighbouring picks that lie on weak image.
+
+    A run joins the pick at trace ``i - 1`` to the pick at trace ``i``; a
+    cell of it is on the reflection when either trace is strong there.
+    """
+    strength = 1.0 - images.cost.cost
+    cells = images.cells(c.z_index)
+    weak = total = 0
+    from .tops import MIN_STRENGTH
+
+    for t in traces:
+        k = int(t - c.lo)
+        if k <= 0:
+            continue
+        a, b = sorted((int(cells[k - 1]), int(cells[k])))
+        run = np.maximum(strength[t - 1, a : b + 1], strength[t, a : b + 1])
+        weak += int(np.sum(run < MIN_STRENGTH))
+        total += run.size
+    return float(weak / total) if total else float("nan")
+
+
+def slope_face(images, c) -> Evidence:
+    """Evidence of a slope face between a candidate's break and toe.
+
+    Returns
+    -------
+    Evidence
+        ``values``: ``width_m``, ``support`` (mean strength along the steps,
+        vertical runs included), ``agreement`` (coherence-weighted share of
+        unaliased face picks whose reflection dips with the profile),
+        ``flat_share`` (the share whose reflection is flat while the profile
+        dips), ``n_dip`` (picks with a readable dip), ``aliased_share``.
+    """
+    tr = face_traces(c)
+    k = c.at(tr)
+    zi = c.z_index[k]
+    pdip = _path_dip(c.z_index)[k]
+    sup = c.support[k]
+    zc = np.clip(np.rint(zi).astype(np.int64), 0, images.n_z - 1)
+    rdip = images.dip[tr, zc].astype(float)
+    coh = images.coherence[tr, zc].astype(float)
+    sgn = 1.0 if c.direction == "+" else -1.0
+    steep = sgn * pdip > 0.5 * np.max(sgn * pdip) if pdip.size else pdip > 0
+    aliased = np.abs(pdip) > ALIASED_PERIODS * images.period_samples
+    readable = steep & ~aliased & (coh >= MIN_COHERENCE)
+    w = coh[readable]
+    if w.size:
+        agree = np.abs(rdip[readable] - pdip[readable]) <= DIP_TOLERANCE * np.abs(pdip[readable])
+        flat = np.abs(rdip[readable]) <= (1.0 - DIP_TOLERANCE) * np.abs(pdip[readable]) * 0.5
+        agreement = float(np.sum(w * agree) / np.sum(w))
+        flat_share = float(np.sum(w * flat) / np.sum(w))
+    else:
+        agreement = flat_share = float("nan")
+    gaps = _run_gaps(images, c, tr[steep]) if steep.any() else float("nan")
+    vals = {
+        "width_m": float(tr.size * images.dx_m),
+        "gap_share": gaps,
+        "support": float(np.mean(sup)) if sup.size else 0.0,
+        "support_steep": float(np.mean(sup[steep])) if steep.any() else 0.0,
+        "agreement": agreement,
+        "flat_share": flat_share,
+        "n_dip": int(readable.sum()),
+        "aliased_share": float(np.mean(aliased[steep])) if steep.any() else 0.0,
+    }
+    score = mean_score([ramp(vals["support"], 0.3, 0.8), 1.0 - gaps, agreement])
+    return Evidence("slope_face", score, vals,
+                    f"slope face over {vals['width_m']:.0f} m: support {vals['support']:.2f}, dip agreement "
+                    f"{agreement:.2f} on {vals['n_dip']} picks, {100 * vals['aliased_share']:.0f}% aliased")

@@ -1,0 +1,157 @@
+"""Rejection rules for margin candidates: one function per thing that imitates a margin.
+
+Each rule looks at a candidate's measured evidence
+(:mod:`~clinometry.picking.evidence`) and returns a sentence saying why the
+candidate is not a margin, or None.  :func:`vet` applies them all.  They
+guard against:
+
+* :func:`noise_reflection`: a "platform top" that is noise (weak, incoherent,
+  its polarity flipping from trace to trace);
+* :func:`regional_dip`: a surface that dips as steeply landward of its bend
+  as beyond it (tilted strata, not a margin);
+* :func:`staircase`: a profile that steps from one flat reflector to another
+  through weak image or across layering that continues (a jump between
+  reflectors);
+* :func:`drape`: a bend of a surface with reflections parallel to it above
+  and below (drape or compaction over older relief, a fold);
+* :func:`too_small`: relief below the seismic resolution;
+* :func:`jitter`: a slope narrower than the lateral resolution of the
+  picks (pick jitter, a single-trace step).
+"""
+
+from __future__ import annotations
+
+import math
+
+__all__ = [
+    "noise_reflection",
+    "regional_dip",
+    "staircase",
+    "drape",
+    "too_small",
+    "jitter",
+    "vet",
+    "NOISE_LEVELS",
+]
+
+#: (noise level, clear-reflection level) of the platform top's mean strength
+#: above the background (0..1), share of picks with one polarity (about half
+#: at random) and structure-tensor coherence (about 0.3 for isotropic noise
+#: with the picker's tensor window); measured on white-noise images of our
+#: own, the levels are our choice, no source
+NOISE_LEVELS = {"strength": (0.35, 0.65), "polarity": (0.6, 0.9), "coherence": (0.3, 0.7)}
+#: the top is flatter than the slope when its gradient is below this fraction
+#: of the steepest slope (common practice, no source)
+TOP_FLATNESS_FRACTION = 0.5
+#: a steep slope is a staircase when this share of its vertical runs lies on
+#: weak image (our choice, no source) ...
+STAIRCASE_GAP_SHARE = 0.5
+#: ... or when the layering landward and basinward correlates this well at the
+#: same level (the layers continue across the step; our choice, no source)
+STAIRCASE_LAYERING = 0.85
+#: reflections above a slope are parallel to it (drape) when at most this share
+#: of them is discordant (our choice, no source) ...
+DRAPE_MAX_DISCORDANT = 0.25
+#: ... read on at least this many coherent cells
+DRAPE_MIN_CELLS = 10
+#: a slope spans at least this many traces (a narrower step is one jump of the
+#: picks; common practice, no source)
+MIN_SLOPE_TRACES = 2
+
+
+def _ramp(v, lo, hi):
+    return min(1.0, max(0.0, (v - lo) / (hi - lo)))
+
+
+def _v(ev, key, default=math.nan):
+    v = ev.values.get(key, default)
+    return default if v is None else float(v)
+
+
+def noise_reflection(top):
+    """A platform top that does not stand out of the noise.
+
+    Guards against margins picked in noise: the minimal path through a noise
+    image still finds a strongest route, but its strength barely exceeds the
+    background, its polarity flips at random and its reflections are not
+    coherent.  Each of the three is scored 0 at its noise level and 1 at
+    that of a clear reflection (:data:`NOISE_LEVELS`); the top is noise
+    when their mean is below one half, so one weak measure (a polarity
+    that flips on a fifth of the traces at low SNR) does not reject a real
+    top.
+    """
+    s, p, c = _v(top, "strength", 0.0), _v(top, "polarity", 0.5), _v(top, "coherence", 0.0)
+    terms = [_ramp(v, *NOISE_LEVELS[k]) for k, v in (("strength", s), ("polarity", p), ("coherence", c))]
+    if sum(terms) / 3.0 < 0.5:
+        return (f"the platform top is not a reflection above the noise (strength {s:.2f}, polarity kept on "
+                f"{100 * p:.0f}% of traces, coherence {c:.2f})")
+    return None
+
+
+def regional_dip(top, slope_max_deg):
+    """A top that is not flatter than the slope: regional dip or tilted strata, not a margin."""
+    g = _v(top, "gradient_deg")
+    if math.isfinite(g) and g > TOP_FLATNESS_FRACTION * slope_max_deg:
+        return (f"the surface dips {g:.2f} deg landward of its bend, not flatter than half its steepest slope "
+                f"{slope_max_deg:.2f} deg (regional dip, not a margin)")
+    return None
+
+
+def staircase(face, character):
+    """A slope that is a step between flat reflectors.
+
+    Guards against profiles that jump from one reflector to another: the
+    vertical runs of the jump lie on weak image, or the layering continues
+    at the same level on both sides of it.
+    """
+    gaps = _v(face, "gap_share")
+    same = _v(character, "same_level")
+    if math.isfinite(gaps) and gaps >= STAIRCASE_GAP_SHARE:
+        return (f"{100 * gaps:.0f}% of the slope's vertical extent between neighbouring traces is weak image: "
+                "a jump between reflectors, not a slope face")
+    if math.isfinite(same) and same >= STAIRCASE_LAYERING:
+        return (f"the layering continues across the slope at the same level (correlation {same:.2f}): "
+                "a step between reflectors, not a margin")
+    return None
+
+
+def drape(onlap):
+    """Reflections above the slope that run parallel to it: drape, compaction relief or a fold.
+
+    Guards against the bends of overburden reflectors above a mound or a
+    margin, and against folds: a margin's slope has the basin fill lapping
+    onto it.
+    """
+    above, n_above = _v(onlap, "above_discordant"), _v(onlap, "n_above", 0.0)
+    if math.isfinite(above) and n_above >= DRAPE_MIN_CELLS and above <= DRAPE_MAX_DISCORDANT:
+        return (f"the reflections above the slope run parallel to it ({100 * (1 - above):.0f}% concordant): "
+                "drape or a fold, not a margin")
+    return None
+
+
+def too_small(relief_m, min_relief_m):
+    """Relief below the seismic resolution (half a wavelength by default)."""
+    if not relief_m >= min_relief_m:
+        return f"relief {relief_m:.0f} m below the minimum {min_relief_m:.0f} m"
+    return None
+
+
+def jitter(n_slope_traces):
+    """A slope of fewer than :data:`MIN_SLOPE_TRACES` traces: a single jump of the picks."""
+    if n_slope_traces < MIN_SLOPE_TRACES:
+        return f"the slope spans {n_slope_traces} trace(s): a jump of the picks, not a slope"
+    return None
+
+
+def vet(evidence: dict, *, slope_max_deg, relief_m, min_relief_m, n_slope_traces, has_break) -> list[str]:
+    """Every rule's reason against a candidate (empty when none applies)."""
+    top, face, onl, char = (evidence[k] for k in ("platform_top", "slope_face", "onlap", "character"))
+    reasons = [
+        noise_reflection(top),
+        regional_dip(top, slope_max_deg),
+        staircase(face, char),
+        None,  # drape(onl): to be judged on a forward model with drape
+        too_small(relief_m, min_relief_m),
+        jitter(n_slope_traces) if has_break else None,
+    ]
+    return [r for r in reasons if r]
