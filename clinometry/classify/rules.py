@@ -161,8 +161,14 @@ def classify_rules(metrics, *, thresholds=None) -> Classification:
     reasons.append(_cmp("max foreset slope", slope, "°", "steep_min_slope_deg", t["steep_min_slope_deg"]))
 
     topset = _num(m, "topset_gradient_deg")
+    curv = _num(m, "break_curvature_per_km")
+    sharp = t["sharp_break_min_curvature_per_km"]
+    # a distally steepened ramp has no sharp shelf break: its slope steepens
+    # gradually in deeper water (Read 1985); a margin with a sharp break and a
+    # dipping top is a rimmed shelf whose top dips
+    gradual = curv is None or curv < sharp
     subtype_score = 0.0
-    if topset is not None and topset > 0 and scores["rimmed_shelf"] > 0:
+    if topset is not None and topset > 0 and scores["rimmed_shelf"] > 0 and gradual:
         # how surely the top dips (not flat) and the slope stays ramp-like
         p_dip = _logistic(math.log(topset / t["flat_topset_max_deg"]), w) if t["flat_topset_max_deg"] > 0 else 1.0
         p_gentle = 1.0 - _logistic(math.log(slope / t["distal_steepening_max_slope_deg"]), w)
@@ -186,9 +192,7 @@ def classify_rules(metrics, *, thresholds=None) -> Classification:
 
     # secondary criteria: (agrees?, reason)
     checks = []
-    curv = _num(m, "break_curvature_per_km")
     relief = _num(m, "relief_m")
-    sharp = t["sharp_break_min_curvature_per_km"]
     if family in ("rimmed_shelf", "steep_margin"):
         if topset is not None:
             flat = abs(topset) <= t["flat_topset_max_deg"]

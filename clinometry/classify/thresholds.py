@@ -48,11 +48,14 @@ class Threshold:
 #: the threshold table (read-only); values in degrees, metres or per km
 DEFAULT_THRESHOLDS = MappingProxyType({
     "ramp_max_slope_deg": Threshold(
-        1.0, "deg", "steepest foreset slope of a ramp; above it a margin has a slope break",
+        2.0, "deg", "steepest foreset slope of a ramp; above it a margin has a slope break",
         "Read, J. F. (1985) Carbonate platform facies models, AAPG Bulletin 69: 1-21; "
         "Burchette, T. P. & Wright, V. P. (1992) Carbonate ramp depositional systems, "
-        "Sedimentary Geology 79: 3-57 (ramps: gentle slopes, generally < 1 deg; from memory)",
-        "Read 1985; Burchette & Wright 1992, from memory"),
+        "Sedimentary Geology 79: 3-57 (ramps: gentle slopes, generally < 1 deg; from memory); the bound is "
+        "set at twice that (our choice), so that a ramp measured with the usual degree or so of seismic "
+        "slope uncertainty, or steepening gently on its outer part, stays a ramp, while rimmed shelves, "
+        "whose fronts stand at several degrees or more, stay above it",
+        "Read 1985; Burchette & Wright 1992, from memory; bound chosen here"),
     "steep_min_slope_deg": Threshold(
         30.0, "deg", "foreset slope above which a margin is steep (bypass/escarpment)",
         "Schlager, W. & Ginsburg, R. N. (1981) Bahama carbonate platforms - the deep and the past, "

@@ -60,19 +60,22 @@ trace (from memory); the 150 m floor keeps ours comparable with those.
 from __future__ import annotations
 
 import logging
+import warnings
 
 import numpy as np
 
 __all__ = [
-    "SLOPE_BASE_MIN_M",
     "BASE_LENGTH_TRACES",
     "SLOPE_PRECISION_FRACTION",
+    "SLOPE_MAX_QUANTILE",
     "SLOPE_QUANTUM_DEG",
     "FLANK_LENGTH_TRACES",
     "CURVATURE_WINDOW_BASES",
     "slope_metrics",
     "grid_surface",
     "secant_slope_max_deg",
+    "fitted_slope_max_deg",
+    "pick_scatter_m",
     "slope_base_length_m",
     "base_length_m_for",
     "local_length_m",
@@ -80,23 +83,18 @@ __all__ = [
 
 logger = logging.getLogger(__name__)
 
-#: shortest base of the maximum-slope secant, m (chosen here; common practice,
-#: no source: one to two dominant wavelengths of 20-40 Hz data at 2-4 km/s
-#: (lambda = v / f, 50-200 m), so the secant spans the lateral smear of the
-#: wavelet and several traces of pick jitter; slope declivities in the
-#: literature are measured over hundreds of metres -- Kenter 1990,
-#: Sedimentology 37; Adams & Schlager 2000, J. Sed. Res. 70; from memory)
-SLOPE_BASE_MIN_M = 150.0
-#: shortest base of the maximum-slope secant, in trace spacings (chosen here; common
-#: practice, no source: long enough that one depth sample over the base is
-#: a few degrees at most, short enough to resolve a foreset of ~10 traces)
-BASE_LENGTH_TRACES = 4
-#: one depth sample over the default base is at most this fraction of the
-#: mean foreset gradient (chosen here; common practice, no source: picks
-#: carry about one sample of vertical error, so a shorter base reports pick
-#: wiggles as slope -- a 0.8 deg ramp needs a base of ~2 km, a 20 deg
-#: foreset ~70 m at 2.5 m samples)
+#: shortest base of the maximum-slope fit, in trace spacings: three traces,
+#: the fewest that give a fitted dip rather than a two-point difference
+#: (common practice, no source)
+BASE_LENGTH_TRACES = 3
+#: the pick scatter changes the fitted slope by at most this fraction of the
+#: mean foreset gradient (chosen here; common practice, no source: a shorter
+#: base reports pick wiggles as slope)
 SLOPE_PRECISION_FRACTION = 0.1
+#: the maximum foreset slope is this quantile of the fitted dips along the
+#: foreset: its steepest fifth (our choice, no source; see
+#: :func:`fitted_slope_max_deg`)
+SLOPE_MAX_QUANTILE = 0.8
 #: without a mean slope: one depth sample over the base is this slope, degrees
 #: (chosen here)
 SLOPE_QUANTUM_DEG = 1.0
@@ -131,13 +129,21 @@ def local_length_m(geometry) -> float:
     return float(max(BASE_LENGTH_TRACES * geometry.trace_spacing_m, vertical))
 
 
-def slope_base_length_m(trace_spacing_m: float, depth_sample_m: float, mean_gradient=None) -> float:
-    """The base of the max-slope secant, m: the one definition shared with the ground truth.
+def slope_base_length_m(trace_spacing_m: float, depth_sample_m: float, mean_gradient=None, *,
+                        pick_scatter_m: float = 0.0) -> float:
+    """The base of the max-slope fit, m: the one definition shared with the ground truth.
 
-    ``max(SLOPE_BASE_MIN_M, BASE_LENGTH_TRACES * trace_spacing_m,
-    depth_sample_m / (SLOPE_PRECISION_FRACTION * mean_gradient))``; without a
-    mean gradient (break or toe missing, or not deepening basinward) the
-    last term is ``depth_sample_m / tan(SLOPE_QUANTUM_DEG)``.
+    ``max(BASE_LENGTH_TRACES * trace_spacing_m, L_noise)``, where ``L_noise`` is
+    the shortest base over which a least-squares line through picks one
+    trace apart, each with a depth error ``sigma``, has a slope error of at
+    most :data:`SLOPE_PRECISION_FRACTION` of the mean gradient ``g``:
+    ``sigma_slope = sigma sqrt(12 / N) / L`` with ``N = L / dx`` points
+    (the standard error of a least-squares slope on evenly spaced points,
+    e.g. Press et al. 2007, from memory), so
+    ``L_noise = (sigma sqrt(12 dx) / (f g)) ** (2/3)``.  ``sigma`` is the
+    larger of the quantisation error of one depth sample (``dz / sqrt(12)``)
+    and the measured pick scatter.  Without a mean gradient (break or toe
+    missing) ``g`` is ``tan(SLOPE_QUANTUM_DEG)``.
 
     Parameters
     ----------
@@ -146,30 +152,66 @@ def slope_base_length_m(trace_spacing_m: float, depth_sample_m: float, mean_grad
         One sample of the section converted to depth at the shelf break.
     mean_gradient : float, optional
         tan of the break-to-toe mean slope (> 0).
+    pick_scatter_m : float, m
+        Scatter of the picks about a smooth profile (0 for an exact surface).
 
     Returns
     -------
     float, m
 
+    References
+    ----------
+    .. [1] Press, W. H., Teukolsky, S. A., Vetterling, W. T. & Flannery, B. P.
+       (2007). Numerical Recipes, 3rd ed., section 15.2 (straight-line fit).
+       (from memory)
+
     Examples
     --------
-    >>> round(slope_base_length_m(12.5, 2.5, np.tan(np.radians(20.0))), 1)
-    150.0
+    >>> round(slope_base_length_m(25.0, 2.5, np.tan(np.radians(20.0))), 1)
+    75.0
     >>> round(slope_base_length_m(12.5, 2.5, np.tan(np.radians(0.8))), 0)
-    1790.0
+    342.0
     """
-    if mean_gradient is not None and mean_gradient > 0:
-        vertical = depth_sample_m / (SLOPE_PRECISION_FRACTION * mean_gradient)
-    else:
-        vertical = depth_sample_m / np.tan(np.radians(SLOPE_QUANTUM_DEG))
-    return float(max(SLOPE_BASE_MIN_M, BASE_LENGTH_TRACES * trace_spacing_m, vertical))
+    g = mean_gradient if mean_gradient is not None and mean_gradient > 0 else np.tan(np.radians(SLOPE_QUANTUM_DEG))
+    sigma = max(float(depth_sample_m) / np.sqrt(12.0), float(pick_scatter_m or 0.0))
+    noise = (sigma * np.sqrt(12.0 * trace_spacing_m) / (SLOPE_PRECISION_FRACTION * g)) ** (2.0 / 3.0)
+    return float(max(BASE_LENGTH_TRACES * trace_spacing_m, noise))
+
+
+def pick_scatter_m(surface, lo_m=None, hi_m=None) -> float:
+    """Robust scatter (m) of a surface's picks about a smooth profile between two positions.
+
+    ``1.4826 * median(|second difference|) / sqrt(6)``: the second difference
+    of independent errors of scatter ``sigma`` has variance ``6 sigma^2``, and
+    1.4826 MAD is the normal-consistent robust sigma (Rousseeuw & Croux
+    1993, from memory).  A smooth profile has second differences far below
+    its pick scatter.
+
+    Examples
+    --------
+    >>> from types import SimpleNamespace
+    >>> s = SimpleNamespace(basinward_m=np.arange(5.0), depth_m=np.zeros(5))
+    >>> pick_scatter_m(s)
+    0.0
+    """
+    b, d = np.asarray(surface.basinward_m, float), np.asarray(surface.depth_m, float)
+    keep = np.ones(b.size, bool)
+    if lo_m is not None:
+        keep &= b >= lo_m - 1e-9
+    if hi_m is not None:
+        keep &= b <= hi_m + 1e-9
+    d = d[keep]
+    if d.size < 5:
+        return 0.0
+    return float(1.4826 * np.median(np.abs(np.diff(d, 2))) / np.sqrt(6.0))
 
 
 def base_length_m_for(geometry, base_length_m=None, *, surface=None) -> float:
-    """The base length of the max-slope secant of a margin geometry, m.
+    """The base length of the max-slope fit of a margin geometry, m.
 
     Given, or :func:`slope_base_length_m` with the geometry's trace spacing,
-    depth sample and the surface's mean break-to-toe gradient.
+    depth sample, the surface's mean break-to-toe gradient and the scatter
+    of its picks between break and toe.
 
     Parameters
     ----------
@@ -187,8 +229,12 @@ def base_length_m_for(geometry, base_length_m=None, *, surface=None) -> float:
         if not np.isfinite(base_length_m) or base_length_m <= 0:
             raise ValueError(f"{geometry.name}: base_length_m must be > 0, got {base_length_m!r}")
         return float(base_length_m)
-    g = _mean_gradient(surface if surface is not None else geometry.profile)
-    return slope_base_length_m(geometry.trace_spacing_m, geometry.depth_sample_m, g)
+    surf = surface if surface is not None else geometry.profile
+    g = _mean_gradient(surf)
+    lo = surf.shelf_break["basinward_m"] if surf.shelf_break else None
+    hi = surf.toe["basinward_m"] if surf.toe else None
+    return slope_base_length_m(geometry.trace_spacing_m, geometry.depth_sample_m, g,
+                               pick_scatter_m=pick_scatter_m(surf, lo, hi))
 
 
 def grid_surface(surface, step_m: float):
@@ -285,6 +331,96 @@ def secant_slope_max_deg(xs, ds, lo_m, hi_m, base_m):
     return np.degrees(np.arctan(best))
 
 
+def fitted_slope_max_deg(xs, ds, lo_m, hi_m, base_m, *, quantile: float = None):
+    """Maximum foreset slope: the steep end of the least-squares dips over a base length within ``[lo_m, hi_m]``.
+
+    A straight line is fitted (least squares) to the profile over every
+    window of ``base_m`` lying wholly inside ``[lo_m, hi_m]``; the
+    :data:`SLOPE_MAX_QUANTILE` quantile of the fitted dips is returned (the
+    steepest fifth of the foreset).  Fitting all points of the base, rather
+    than taking the difference of its two ends, keeps pick scatter from
+    reading as slope; a high quantile rather than the maximum, because the
+    maximum of N noisy dips exceeds the true one by about
+    ``sigma sqrt(2 ln N)`` (the expected maximum of N normal deviates, e.g.
+    David & Nagaraja 2003, from memory), while along the straight part of a
+    foreset, where the slope is steepest and nearly constant (Adams &
+    Schlager 2000), the quantile and the maximum agree.  Vectorised over
+    leading dimensions (Monte-Carlo draws).
+
+    Parameters
+    ----------
+    xs : numpy.ndarray, shape (n,), m
+        Uniform basinward grid.
+    ds : numpy.ndarray, shape (..., n), m
+        Depth on that grid (positive down).
+    lo_m, hi_m : float or numpy.ndarray, shape (...), m
+        Window (break and toe positions).
+    base_m : float, m
+        Base length; rounded to a whole number of grid steps (at least 2).
+
+    Returns
+    -------
+    numpy.ndarray, shape (...), degrees
+        Positive when deepening basinward.  Where the window is shorter than
+        one base, the least-squares slope over the whole window; NaN where
+        ``hi_m <= lo_m``.
+
+    Examples
+    --------
+    >>> xs = np.arange(0.0, 1001.0, 10.0)
+    >>> ds = np.where(xs < 500, 0.0, (xs - 500) * np.tan(np.radians(10)))
+    >>> round(float(fitted_slope_max_deg(xs, ds, 0.0, 1000.0, 40.0)), 6)
+    10.0
+    """
+    xs = np.asarray(xs, dtype=float)
+    ds = np.asarray(ds, dtype=float)
+    lo = np.asarray(lo_m, dtype=float)
+    hi = np.asarray(hi_m, dtype=float)
+    step = float(xs[1] - xs[0]) if xs.size > 1 else 1.0
+    k = max(2, int(round(base_m / step)))
+    eps = 1e-6 * step
+    shape = np.broadcast_shapes(ds.shape[:-1], lo.shape, hi.shape)
+    best = np.full(shape, -np.inf)
+    n = xs.size
+    if n > k:
+        w = k + 1
+        idx = np.arange(n, dtype=float)
+        c0 = np.concatenate([np.zeros(ds.shape[:-1] + (1,)), np.cumsum(ds, axis=-1)], axis=-1)
+        c1 = np.concatenate([np.zeros(ds.shape[:-1] + (1,)), np.cumsum(ds * idx, axis=-1)], axis=-1)
+        s0 = c0[..., w:] - c0[..., :-w]
+        s1 = c1[..., w:] - c1[..., :-w]
+        start = idx[: n - k]
+        centre = start + 0.5 * k
+        sxx = step * w * (w * w - 1) / 12.0
+        slope = (s1 - centre * s0) / sxx
+        ok = (xs[: n - k] >= lo[..., None] - eps) & (xs[k:] <= hi[..., None] + eps)
+        q = SLOPE_MAX_QUANTILE if quantile is None else float(quantile)
+        vals = np.where(ok, slope, np.nan)
+        with warnings.catch_warnings():
+            warnings.simplefilter("ignore", RuntimeWarning)  # all-NaN rows: no window fits
+            best = np.nanquantile(vals, q, axis=-1) if vals.shape[-1] else np.full(shape, np.nan)
+        best = np.where(np.isfinite(best), best, -np.inf)
+    # window shorter than one base: the least-squares slope over the window
+    short = ~np.isfinite(best)
+    if np.any(short):
+        inside = (xs >= np.broadcast_to(lo, shape)[..., None] - eps) & (xs <= np.broadcast_to(hi, shape)[..., None] + eps)
+        cnt = inside.sum(axis=-1)
+        dd = np.broadcast_to(ds, shape + (n,))
+        with np.errstate(invalid="ignore", divide="ignore"):
+            xm = np.where(cnt > 0, (inside * xs).sum(-1) / np.maximum(cnt, 1), 0.0)
+            dm = np.where(cnt > 0, (inside * dd).sum(-1) / np.maximum(cnt, 1), 0.0)
+            num = (inside * (xs - xm[..., None]) * (dd - dm[..., None])).sum(-1)
+            den = (inside * (xs - xm[..., None]) ** 2).sum(-1)
+            fit = np.where((cnt >= 2) & (den > 0), num / np.where(den > 0, den, 1.0), np.nan)
+            d_lo = _interp_rows(xs[0], step, dd, np.broadcast_to(lo, shape))
+            d_hi = _interp_rows(xs[0], step, dd, np.broadcast_to(hi, shape))
+            chord = (d_hi - d_lo) / (hi - lo)
+        fit = np.where(np.isfinite(fit), fit, chord)
+        best = np.where(short, fit, best)
+    best = np.where(np.broadcast_to(hi, shape) > np.broadcast_to(lo, shape), best, np.nan)
+    return np.degrees(np.arctan(best))
+
+
 def _gradient_deg(b, d):
     """Least-squares gradient of depth vs distance, in degrees (positive deepening basinward)."""
     slope = np.polyfit(b - b.mean(), d, 1)[0]
@@ -323,7 +459,7 @@ def _foreset(geometry, surface, base_length_m, label):
         for k in ("slope_max_deg", "slope_mean_deg", "relief_m", "foreset_width_m"):
             missing[k] = reason
         return values, missing, window
-    smax = float(secant_slope_max_deg(xs, ds, lo, hi, base_m))
+    smax = float(fitted_slope_max_deg(xs, ds, lo, hi, base_m))
     if np.isfinite(smax):
         values["slope_max_deg"] = smax
     else:

@@ -42,7 +42,7 @@ import logging
 
 import numpy as np
 
-from .slope import _interp_rows, base_length_m_for, grid_surface, secant_slope_max_deg
+from .slope import _interp_rows, base_length_m_for, fitted_slope_max_deg, grid_surface
 
 __all__ = ["UNCERTAINTY_DEFAULTS", "uncertainty_settings", "propagate"]
 
@@ -212,7 +212,7 @@ def propagate(geometry, *, settings: dict, section=None, velocity=None, base_len
     dd = base_depth + field
 
     out = {}
-    smax = secant_slope_max_deg(xs, dd, b_pos, t_pos, base)
+    smax = fitted_slope_max_deg(xs, dd, b_pos, t_pos, base)
     out["slope_max_deg"] = _percentiles(smax)
     if brk is not None:
         d_brk = _interp_rows(xs[0], step, dd, b_pos) + f * b_off

@@ -67,6 +67,7 @@ __all__ = [
     "SLOPE_WIDTH_SMOOTHING_DIVISOR",
     "Candidate",
     "propose_candidates",
+    "leg_readings",
 ]
 
 logger = logging.getLogger(__name__)
@@ -242,7 +243,7 @@ def _derivatives(d, x):
     return g, k
 
 
-def leg_bends(distance_m, depth_m, leg: Leg, *, smoothing_m: float) -> Bends:
+def leg_bends(distance_m, depth_m, leg: Leg, *, smoothing_m: float, scale: str = "slope") -> Bends:
     """Steepest point, shelf break and toe of a leg by curvature.
 
     Parameters
@@ -252,7 +253,16 @@ def leg_bends(distance_m, depth_m, leg: Leg, *, smoothing_m: float) -> Bends:
         smoothing support on both sides).
     leg : Leg
     smoothing_m : float, m
-        Smoothing length (sigma), at least an eighth of the slope width is used.
+        Smoothing length (sigma).
+    scale : {"slope", "leg"}
+        ``"slope"``: the profile is read at the smoothing length, so a
+        rimmed shelf or steep margin is seen with its sharp break even where
+        a gentle tail (a dipping basin floor, a long topset) makes the leg
+        much wider than the slope.  ``"leg"``: the smoothing is at least an
+        eighth of the width of the leg's relief zone (where it gains the
+        middle :data:`RELIEF_ZONE` of its relief), so a ramp is judged over
+        its kilometres and a jump of the picks on it does not count as its
+        slope.
 
     Returns
     -------
@@ -274,19 +284,19 @@ def leg_bends(distance_m, depth_m, leg: Leg, *, smoothing_m: float) -> Bends:
     sig = max(smoothing_m / dx, 0.5)
     sgn = 1.0 if leg.direction == "+" else -1.0
     base = smooth_profile(d, sig)
-    # the slope zone: where the leg gains the middle RELIEF_ZONE of its relief
-    # (monotone envelope of the profile, so wiggles do not count); its width
-    # sets the scale at which the slope is judged: a ramp over its kilometres,
-    # a rimmed shelf over its wavelength
     z0, z1 = _relief_zone(x, base, leg)
-    width = abs(x[z1] - x[z0]) / (RELIEF_ZONE[1] - RELIEF_ZONE[0])
-    sig_leg = max(sig, width / (SLOPE_WIDTH_SMOOTHING_DIVISOR * dx))
+    if scale == "leg":
+        width = abs(x[z1] - x[z0]) / (RELIEF_ZONE[1] - RELIEF_ZONE[0])
+        sig_leg = max(sig, width / (SLOPE_WIDTH_SMOOTHING_DIVISOR * dx))
+        a0, a1 = sorted((z0, z1))
+    else:
+        sig_leg = sig
+        a0, a1 = leg.start, leg.end
     prof = base if sig_leg <= sig else ndimage.gaussian_filter1d(smooth_profile(d, sig), sig_leg, mode="nearest")
     g, kappa = _derivatives(prof, x)
     gb = sgn * g
     pad = int(np.ceil(2 * sig_leg))
     lo, hi = max(0, leg.start - pad), min(n - 1, leg.end + pad)
-    a0, a1 = sorted((z0, z1))
     p = int(a0 + np.argmax(gb[a0 : a1 + 1]))
     slope_max = float(np.degrees(np.arctan(max(gb[p], 0.0))))
     # the bends of this slope are the nearest ones: the search on each side
@@ -298,17 +308,12 @@ def leg_bends(distance_m, depth_m, leg: Leg, *, smoothing_m: float) -> Bends:
     hi = min(hi, _flattened(gb, p, +1, hi, reach))
     land = np.arange(lo, p + 1) if leg.direction == "+" else np.arange(p, hi + 1)
     basin = np.arange(p, hi + 1) if leg.direction == "+" else np.arange(lo, p + 1)
-    # the bend must belong to this leg: beyond the leg's extremum the padding
-    # only lets a bend that the smoothing moved outside it be found
-    kb = kappa[land]
-    kt = -kappa[basin]
-    brk = int(land[np.argmax(kb)]) if land.size else None
-    toe = int(basin[np.argmax(kt)]) if basin.size else None
+    brk = int(land[np.argmax(kappa[land])]) if land.size else None
+    toe = int(basin[np.argmax(-kappa[basin])]) if basin.size else None
     kb_max = float(kappa[brk]) * 1000.0 if brk is not None else 0.0
     kt_max = float(-kappa[toe]) * 1000.0 if toe is not None else 0.0
     outer_b = brk if brk is not None and brk != p else leg.landward
     outer_t = toe if toe is not None and toe != p else leg.basinward
-    z_land, z_basin = (z0, z1)
     break_reason = toe_reason = ""
     if brk is None or brk == p or kb_max <= 0:
         break_reason = "no convex-up bend landward of the steepest point"
@@ -320,19 +325,38 @@ def leg_bends(distance_m, depth_m, leg: Leg, *, smoothing_m: float) -> Bends:
     if toe is None or toe == p or kt_max <= 0:
         toe_reason = "no concave-up bend basinward of the steepest point (toe beyond the line or no basin floor)"
         toe = None
-    elif kt_max < DISTINCT_BEND_PER_KM or brk is None and break_reason.startswith("no distinct"):
-        toe_reason = (f"no distinct toe: the profile flattens by at most {kt_max:.3f}/km basinward of its steepest "
-                      f"point, as on a ramp")
+    elif brk is None and break_reason.startswith("no distinct"):
+        toe_reason = "no distinct toe: a profile without a distinct break (a ramp) has none either"
         toe = None
     if brk is None:
         # no distinct break (a ramp): its top is read landward of where the
-        # leg starts to gain relief
-        outer_b = z_land
-    if toe is None:
-        outer_t = z_basin
+        # leg starts to gain relief, its floor beyond where it ends
+        outer_b = z0
+        outer_t = z1
     return Bends(leg=leg, steepest=p, shelf_break=brk, toe=toe, break_reason=break_reason, toe_reason=toe_reason,
                  slope_max_deg=slope_max, sigma_traces=float(sig_leg), break_curvature_per_km=kb_max,
                  toe_curvature_per_km=kt_max, outer_break=int(outer_b), outer_toe=int(outer_t))
+
+
+def leg_readings(distance_m, depth_m, leg: Leg, *, smoothing_m: float, min_relief_m: float) -> list:
+    """The readings of a leg worth judging: at the slope scale, and at the leg scale where it differs.
+
+    The slope-scale reading is a margin with a break when its break and toe
+    are distinct and bound at least the minimum relief; the leg-scale
+    reading (a ramp, or a margin whose slope is wide) is added when the
+    slope-scale reading is not such a margin, or when the two disagree on
+    where the slope is.  Which one is the margin is for the evidence to say.
+    """
+    fine = leg_bends(distance_m, depth_m, leg, smoothing_m=smoothing_m, scale="slope")
+    coarse = leg_bends(distance_m, depth_m, leg, smoothing_m=smoothing_m, scale="leg")
+    d = np.asarray(depth_m, dtype=float)
+    sharp = (fine.shelf_break is not None and fine.toe is not None
+             and abs(float(d[fine.toe] - d[fine.shelf_break])) >= min_relief_m)
+    out = [fine] if sharp else []
+    if not sharp or coarse.shelf_break is None or abs(coarse.steepest - fine.steepest) > 2 * fine.sigma_traces:
+        if coarse.sigma_traces > fine.sigma_traces or not out:
+            out.append(coarse)
+    return out
 
 
 @dataclass(frozen=True)
@@ -419,48 +443,58 @@ def propose_candidates(images, surfaces) -> list[Candidate]:
     -------
     list of Candidate
     """
-    from .tracking import _run_support, path_through, refine
-
     x = images.distance_m
-    n = images.n_trace
-    img = images.cost
-    strength = 1.0 - img.cost
+    rows = np.arange(images.n_trace)
     out = []
     seen = []
     for s in surfaces:
-        rows = np.arange(n)
         d = images.depth_of(rows, s.z_index)
         for leg in find_legs(x, d, smoothing_m=images.smoothing_m, min_relief_m=images.min_relief_m):
-            b0 = leg_bends(x, d, leg, smoothing_m=images.smoothing_m)
-            p = b0.steepest
-            width = leg.end - leg.start
-            pad = int(max(PROFILE_MARGIN_LEGS * width, PROFILE_MARGIN_M / images.dx_m))
-            lo, hi = max(0, leg.start - pad), min(n, leg.end + pad + 1)
-            cell = int(images.cells(s.z_index[p]))
-            pol_img = img.with_polarity(s.polarity)
-            cells = path_through(pol_img, p, cell, direction=leg.direction, lo=lo, hi=hi)
-            zi, _ = refine(images.envelope[lo:hi], cells, img.factor, img.scale, positive=images.positive,
-                           polarity=s.polarity, rows=np.arange(lo, hi))
-            dep = images.depth_of(np.arange(lo, hi), zi)
-            xw = x[lo:hi]
-            g = _local_legs(xw, dep, images.smoothing_m, images.min_relief_m, p - lo, leg.direction)
-            if g is None:
-                logger.debug("surface %d leg %d-%d: re-extracted profile has no leg there", s.rank, leg.start, leg.end)
-                continue
-            bw = leg_bends(xw, dep, g, smoothing_m=images.smoothing_m)
-            key = (leg.direction, bw.steepest + lo, float(zi[bw.steepest]))
-            if any(k[0] == key[0] and abs(k[1] - key[1]) <= max(2.0, images.wavelength_m / images.dx_m)
-                   and abs(k[2] - key[2]) <= images.period_samples for k in seen):
-                continue
-            seen.append(key)
-            pstrength = 1.0 - pol_img.cost
-            q = pstrength[np.arange(lo, hi), cells].astype(float)
-            sup = _run_support(pstrength[lo:hi], cells)
-            q[images.dead[lo:hi]] = 0.0
-            sup[images.dead[lo:hi]] = 0.0
-            out.append(Candidate(direction=leg.direction, lo=lo, hi=hi, z_index=zi.astype(float), depth_m=dep,
-                                 quality=q, support=sup, bends=_shift(bw, lo), source_rank=s.rank))
+            for b0 in leg_readings(x, d, leg, smoothing_m=images.smoothing_m, min_relief_m=images.min_relief_m):
+                cand = _reextract(images, s, leg, b0)
+                if cand is None:
+                    continue
+                key = (cand.direction, cand.bends.steepest, float(cand.z_index[cand.at(cand.bends.steepest)]),
+                       cand.bends.shelf_break is None)
+                if any(k[0] == key[0] and k[3] == key[3] and abs(k[1] - key[1]) <= max(2.0, images.wavelength_m / images.dx_m)
+                       and abs(k[2] - key[2]) <= images.period_samples for k in seen):
+                    continue
+                seen.append(key)
+                out.append(cand)
     return out
+
+
+def _reextract(images, s, leg, b0):
+    """A candidate from one reading of a surface's leg, its profile extracted again through the steepest point.
+
+    None when the re-extracted profile has no leg facing the same way there.
+    """
+    from .tracking import path_through, refine, run_support
+
+    img = images.cost
+    p = b0.steepest
+    width = leg.end - leg.start
+    pad = int(max(PROFILE_MARGIN_LEGS * width, PROFILE_MARGIN_M / images.dx_m))
+    lo, hi = max(0, leg.start - pad), min(images.n_trace, leg.end + pad + 1)
+    pol_img = img.with_polarity(s.polarity)
+    cells = path_through(pol_img, p, int(images.cells(s.z_index[p])), direction=leg.direction, lo=lo, hi=hi)
+    zi, _ = refine(images.envelope[lo:hi], cells, img.factor, amplitude=images.amplitude, polarity=s.polarity,
+                   rows=np.arange(lo, hi))
+    dep = images.depth_of(np.arange(lo, hi), zi)
+    xw = images.distance_m[lo:hi]
+    g = _local_legs(xw, dep, images.smoothing_m, images.min_relief_m, p - lo, leg.direction)
+    if g is None:
+        logger.debug("surface %d leg %d-%d: re-extracted profile has no leg there", s.rank, leg.start, leg.end)
+        return None
+    scale = "leg" if b0.sigma_traces > max(images.smoothing_m / images.dx_m, 0.5) + 1e-9 else "slope"
+    bw = leg_bends(xw, dep, g, smoothing_m=images.smoothing_m, scale=scale)
+    strength = 1.0 - pol_img.cost[lo:hi]
+    q = strength[np.arange(hi - lo), cells].astype(float)
+    sup = run_support(strength, cells)
+    q[images.dead[lo:hi]] = 0.0
+    sup[images.dead[lo:hi]] = 0.0
+    return Candidate(direction=leg.direction, lo=lo, hi=hi, z_index=zi.astype(float), depth_m=dep,
+                     quality=q, support=sup, bends=_shift(bw, lo), source_rank=s.rank)
 
 
 def _shift(b: Bends, lo: int) -> Bends:

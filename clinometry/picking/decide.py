@@ -37,10 +37,13 @@ logger = logging.getLogger(__name__)
 #: weight of each piece of evidence in the confidence (our choice, no source:
 #: the platform top and the slope face carry a margin; floor, onlap and the
 #: change of character confirm it)
-WEIGHTS = {"platform_top": 0.3, "slope_face": 0.25, "basin_floor": 0.15, "onlap": 0.15, "character": 0.15}
+WEIGHTS = {"platform_top": 0.35, "slope_face": 0.3, "basin_floor": 0.15, "onlap": 0.0, "character": 0.2}
 #: confidence factor of a margin whose break or toe lies at the edge of the
 #: record or within one smoothing length of a line end (common practice, no source)
 EDGE_FACTOR = 0.5
+#: confidence margin by which a reading with a distinct break is preferred to
+#: a ramp reading of the same slope (our choice, no source)
+BREAK_PREFERENCE = 0.15
 #: candidates with lower confidence are not reported (listed in the notes)
 DEFAULT_MIN_CONFIDENCE = 0.5
 
@@ -110,7 +113,10 @@ def choose_margins(images, assessed, *, min_confidence: float = DEFAULT_MIN_CONF
     """
     notes = [] if notes is None else notes
     kept = []
-    for a in sorted(assessed, key=lambda a: -a.confidence):
+    # a reading with a distinct break is preferred to a ramp reading of the
+    # same slope unless clearly less confident: a profile with a distinct
+    # break is not a ramp (Read 1985)
+    for a in sorted(assessed, key=lambda a: -(a.confidence + BREAK_PREFERENCE * (a.candidate.bends.shelf_break is not None))):
         c = a.candidate
         where = f"margin candidate facing {c.direction} at trace {c.bends.steepest}"
         if a.rejected:

@@ -82,6 +82,8 @@ class SectionImages:
         Envelope of the balanced amplitudes.
     positive : SignBits
         Where the balanced amplitudes are positive.
+    amplitude : numpy.ndarray, shape (n_trace, n_z)
+        The section's own samples (not a copy), for picking peaks and troughs.
     dip : numpy.ndarray, float32, shape (n_trace, n_z)
         Apparent reflection dip, samples per trace.
     coherence : numpy.ndarray, float32, shape (n_trace, n_z)
@@ -103,6 +105,7 @@ class SectionImages:
     dead: np.ndarray
     envelope: np.ndarray
     positive: object
+    amplitude: np.ndarray
     dip: np.ndarray
     coherence: np.ndarray
     cost: CostImage
@@ -208,5 +211,5 @@ def prepare(section, velocity, *, smoothing_m=None, min_relief_m=None) -> Sectio
     return SectionImages(section=section, name=name, velocity=model, z=z, distance_m=dist, dx_m=dx,
                          period_samples=float(period_samples), wavelength_m=float(wavelength),
                          smoothing_m=smoothing, min_relief_m=min_relief, vertical_m=vm, dead=cond.dead,
-                         envelope=amplitude, positive=positive, dip=dip, coherence=coh, cost=img,
+                         envelope=amplitude, positive=positive, amplitude=data, dip=dip, coherence=coh, cost=img,
                          notes=tuple(notes))

@@ -350,7 +350,7 @@ def _factors(direction):
     return 1.0, 1.0
 
 
-def _run_support(strength, path):
+def run_support(strength, path):
     """Mean strength along each step: the pick and the vertical run from the previous pick."""
     n = path.size
     out = np.empty(n, dtype=np.float64)
@@ -365,37 +365,36 @@ def _run_support(strength, path):
     return out
 
 
-def refine(envelope, cells, factor, scale=None, *, positive=None, polarity=None, rows=None):
-    """Full-resolution envelope maximum near each cell, with a parabolic sub-sample fit.
+def refine(envelope, cells, factor, *, amplitude=None, polarity=None, rows=None):
+    """The reflection's peak near each cell, with a parabolic sub-sample fit.
 
-    The maximum is searched in the cell and its two neighbours (the path
-    runs on cells of ``factor`` samples, so the reflection's peak may lie
-    just beyond its own cell); adjacent reflections are at least a quarter
-    period, two cells, apart.
-
-    With ``positive`` (sign image of the whole line), ``polarity`` (``"peak"``
-    or ``"trough"``) and ``rows`` (the line's traces of ``envelope``), only
-    samples of that polarity count.
+    The peak is searched in the cell and its two neighbours (the path runs
+    on cells of ``factor`` samples, so the reflection's peak may lie just
+    beyond its own cell; adjacent reflections are at least a quarter period,
+    two cells, apart).  A surface of known polarity is refined on the
+    amplitude of that sign (``amplitude``: the section's samples, of which
+    ``rows`` are the traces of ``envelope``): an interpreter picks a peak or
+    a trough, and along a steep face the envelope's maximum drifts from the
+    wavelet's peak where neighbouring reflections interfere.  Otherwise the
+    envelope is used.
 
     Returns (sub-sample z index (float), integer sample index) per trace.
     """
-    env = envelope
-    n, nz = env.shape
+    n, nz = envelope.shape
     start = np.asarray(cells) * factor - factor
-    offs = np.arange(3 * factor)
-    idx = np.clip(start[:, None] + offs[None, :], 0, nz - 1)
-    rows_l = np.arange(n)
-    vals = env[rows_l[:, None], idx]
-    if positive is not None and polarity in ("peak", "trough"):
-        tr = (np.arange(n) if rows is None else np.asarray(rows))[:, None]
-        sgn = positive[np.broadcast_to(tr, idx.shape), idx]
-        vals = np.where(sgn == (polarity == "peak"), vals, 0.0)
-    rows = rows_l
-    # prefer the own cell among equal maxima (argmax takes the first)
-    best = idx[rows, np.argmax(vals, axis=1)]
+    idx = np.clip(start[:, None] + np.arange(3 * factor)[None, :], 0, nz - 1)
+    rl = np.arange(n)
+    if amplitude is not None and polarity in ("peak", "trough"):
+        tr = rl if rows is None else np.asarray(rows)
+        sgn = 1.0 if polarity == "peak" else -1.0
+        img, rr = amplitude, tr
+    else:
+        sgn, img, rr = 1.0, envelope, rl
+    vals = sgn * np.asarray(img[rr[:, None], idx], dtype=np.float64)
+    best = idx[rl, np.argmax(vals, axis=1)]
     lo = np.clip(best - 1, 0, nz - 1)
     hi = np.clip(best + 1, 0, nz - 1)
-    y0, y1, y2 = (env[rows, k].astype(np.float64) for k in (lo, best, hi))
+    y0, y1, y2 = (sgn * np.asarray(img[rr, k], dtype=np.float64) for k in (lo, best, hi))
     den = y0 - 2.0 * y1 + y2
     with np.errstate(divide="ignore", invalid="ignore"):
         shift = np.where((den < 0) & (lo < best) & (best < hi), 0.5 * (y0 - y2) / den, 0.0)
@@ -446,10 +445,10 @@ def track_surfaces(envelope, positive, image: CostImage, *, period_samples: floa
         cells = _backtrack(back, int(np.argmin(d)))
         strength = 1.0 - cost
         q = strength[rows, cells].astype(np.float64)
-        support = _run_support(strength, cells)
+        support = run_support(strength, cells)
         q[dead] = 0.0
         support[dead] = 0.0
-        zi, best = refine(envelope, cells, image.factor, image.scale)
+        zi, best = refine(envelope, cells, image.factor)
         out.append(Surface(z_index=zi.astype(np.float64), quality=q, support=support,
                            polarity=_polarity(positive, rows, best, q), rank=rank))
         band = np.clip(cells[:, None] + offsets[None, :], 0, m - 1)
