@@ -33,6 +33,9 @@ ALIASED_PERIODS = 0.5
 #: a reflection dip agrees with the profile when within this fraction of it
 #: (our choice, no source)
 DIP_TOLERANCE = 0.5
+#: a cell of a vertical run is in a gap when its strength is below this
+#: fraction of the face's median strength (our choice, no source)
+GAP_FRACTION = 0.5
 #: structure-tensor coherence above which a dip is read (our choice, no source)
 MIN_COHERENCE = 0.5
 
@@ -43,23 +46,31 @@ def _path_dip(z_index):
 
 
 def _run_gaps(images, c, traces):
-    """Share of the cells of the vertical runs between neighbouring picks that lie on weak image.
+    """Share of the cells of the vertical runs between neighbouring picks that lie in a gap of the reflection.
 
     A run joins the pick at trace ``i - 1`` to the pick at trace ``i``; a
-    cell of it is on the reflection when either trace is strong there.
+    cell of it is on the reflection when either trace's envelope there
+    reaches :data:`GAP_FRACTION` of the face's own typical strength (the
+    median at its picks).  A slope face is often much weaker than the
+    platform top (its impedance contrast fades downslope), but it is
+    continuous; a jump between reflectors crosses the near-empty image
+    between them.
     """
     strength = 1.0 - images.cost.cost
     cells = images.cells(c.z_index)
+    k = np.asarray(traces) - c.lo
+    k = k[k > 0]
+    if k.size == 0:
+        return float("nan")
+    ref = float(np.median(strength[k + c.lo, cells[k]]))
+    if ref <= 0:
+        return 1.0
     weak = total = 0
-    from .tops import MIN_STRENGTH
-
-    for t in traces:
-        k = int(t - c.lo)
-        if k <= 0:
-            continue
-        a, b = sorted((int(cells[k - 1]), int(cells[k])))
+    for kk in k:
+        t = int(kk + c.lo)
+        a, b = sorted((int(cells[kk - 1]), int(cells[kk])))
         run = np.maximum(strength[t - 1, a : b + 1], strength[t, a : b + 1])
-        weak += int(np.sum(run < MIN_STRENGTH))
+        weak += int(np.sum(run < GAP_FRACTION * ref))
         total += run.size
     return float(weak / total) if total else float("nan")
 
