@@ -5,7 +5,7 @@ classification -> result -> reports/batch.  The public API is re-exported
 here by name.
 """
 
-__version__ = "0.1.0"
+from ._version import __version__  # noqa: F401
 
 from .errors import (  # noqa: F401
     ClinometryError,

@@ -27,7 +27,7 @@ from dataclasses import dataclass
 from types import MappingProxyType
 
 from ..errors import ThresholdsError
-from ..metrics.trajectory import TRAJECTORY_FLAT_DEG
+from ..definitions import TRAJECTORY_FLAT_DEG
 
 __all__ = ["Threshold", "DEFAULT_THRESHOLDS", "default_thresholds", "check_thresholds", "load_thresholds"]
 

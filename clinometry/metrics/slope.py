@@ -16,7 +16,8 @@ slope_max_deg
     between break and toe: ``max over x of atan((d(x + L) - d(x)) / L)``.
     One definition, used by the metrics on the picked surface and by the
     forward model's ground truth (:mod:`clinometry.synth.truth`) on the exact
-    surface, with the same base (:func:`slope_base_length_m`)::
+    surface, with the same base
+    (:func:`clinometry.definitions.slope_base_length_m`)::
 
         L = max(SLOPE_BASE_MIN_M, BASE_LENGTH_TRACES * trace spacing,
                 depth sample / (SLOPE_PRECISION_FRACTION * tan(slope_mean)))
@@ -63,43 +64,20 @@ import logging
 
 import numpy as np
 
+from ..definitions import BASE_LENGTH_TRACES, SLOPE_QUANTUM_DEG, slope_base_length_m
+
 __all__ = [
-    "SLOPE_BASE_MIN_M",
-    "BASE_LENGTH_TRACES",
-    "SLOPE_PRECISION_FRACTION",
-    "SLOPE_QUANTUM_DEG",
     "FLANK_LENGTH_TRACES",
     "CURVATURE_WINDOW_BASES",
     "slope_metrics",
     "grid_surface",
     "secant_slope_max_deg",
-    "slope_base_length_m",
     "base_length_m_for",
     "local_length_m",
 ]
 
 logger = logging.getLogger(__name__)
 
-#: shortest base of the maximum-slope secant, m (chosen here; common practice,
-#: no source: one to two dominant wavelengths of 20-40 Hz data at 2-4 km/s
-#: (lambda = v / f, 50-200 m), so the secant spans the lateral smear of the
-#: wavelet and several traces of pick jitter; slope declivities in the
-#: literature are measured over hundreds of metres -- Kenter 1990,
-#: Sedimentology 37; Adams & Schlager 2000, J. Sed. Res. 70; from memory)
-SLOPE_BASE_MIN_M = 150.0
-#: shortest base of the maximum-slope secant, in trace spacings (chosen here; common
-#: practice, no source: long enough that one depth sample over the base is
-#: a few degrees at most, short enough to resolve a foreset of ~10 traces)
-BASE_LENGTH_TRACES = 4
-#: one depth sample over the default base is at most this fraction of the
-#: mean foreset gradient (chosen here; common practice, no source: picks
-#: carry about one sample of vertical error, so a shorter base reports pick
-#: wiggles as slope -- a 0.8 deg ramp needs a base of ~2 km, a 20 deg
-#: foreset ~70 m at 2.5 m samples)
-SLOPE_PRECISION_FRACTION = 0.1
-#: without a mean slope: one depth sample over the base is this slope, degrees
-#: (chosen here)
-SLOPE_QUANTUM_DEG = 1.0
 #: length of the topset / bottomset gradient fit, in trace spacings (chosen here)
 FLANK_LENGTH_TRACES = 20
 #: half-width of the curvature fit window, in local lengths (chosen here)
@@ -122,8 +100,9 @@ def _mean_gradient(surface):
 def local_length_m(geometry) -> float:
     """Length scale of the local fits next to break and toe, m.
 
-    The longer of :data:`BASE_LENGTH_TRACES` trace spacings and the length
-    over which one depth sample is a slope of :data:`SLOPE_QUANTUM_DEG`.
+    The longer of :data:`~clinometry.definitions.BASE_LENGTH_TRACES` trace
+    spacings and the length over which one depth sample is a slope of
+    :data:`~clinometry.definitions.SLOPE_QUANTUM_DEG`.
     Used to keep the rollover out of the flank fits and as the unit of the
     curvature window; independent of the slope itself.
     """
@@ -131,44 +110,10 @@ def local_length_m(geometry) -> float:
     return float(max(BASE_LENGTH_TRACES * geometry.trace_spacing_m, vertical))
 
 
-def slope_base_length_m(trace_spacing_m: float, depth_sample_m: float, mean_gradient=None) -> float:
-    """The base of the max-slope secant, m: the one definition shared with the ground truth.
-
-    ``max(SLOPE_BASE_MIN_M, BASE_LENGTH_TRACES * trace_spacing_m,
-    depth_sample_m / (SLOPE_PRECISION_FRACTION * mean_gradient))``; without a
-    mean gradient (break or toe missing, or not deepening basinward) the
-    last term is ``depth_sample_m / tan(SLOPE_QUANTUM_DEG)``.
-
-    Parameters
-    ----------
-    trace_spacing_m : float, m
-    depth_sample_m : float, m
-        One sample of the section converted to depth at the shelf break.
-    mean_gradient : float, optional
-        tan of the break-to-toe mean slope (> 0).
-
-    Returns
-    -------
-    float, m
-
-    Examples
-    --------
-    >>> round(slope_base_length_m(12.5, 2.5, np.tan(np.radians(20.0))), 1)
-    150.0
-    >>> round(slope_base_length_m(12.5, 2.5, np.tan(np.radians(0.8))), 0)
-    1790.0
-    """
-    if mean_gradient is not None and mean_gradient > 0:
-        vertical = depth_sample_m / (SLOPE_PRECISION_FRACTION * mean_gradient)
-    else:
-        vertical = depth_sample_m / np.tan(np.radians(SLOPE_QUANTUM_DEG))
-    return float(max(SLOPE_BASE_MIN_M, BASE_LENGTH_TRACES * trace_spacing_m, vertical))
-
-
 def base_length_m_for(geometry, base_length_m=None, *, surface=None) -> float:
     """The base length of the max-slope secant of a margin geometry, m.
 
-    Given, or :func:`slope_base_length_m` with the geometry's trace spacing,
+    Given, or :func:`clinometry.definitions.slope_base_length_m` with the geometry's trace spacing,
     depth sample and the surface's mean break-to-toe gradient.
 
     Parameters
