@@ -2,8 +2,8 @@
 
 A :class:`Result` gathers what each step returned -- the source and velocity
 model, the :class:`~clinometry.picking.picks.Picks`, the
-:class:`~clinometry.metrics.records.Metrics` and one
-:class:`~clinometry.classify.records.Classification` per margin -- plus how
+:class:`~clinometry.metrics.metric_records.Metrics` and one
+:class:`~clinometry.classify.classification.Classification` per margin -- plus how
 the run was made (plugins, thresholds, seed, fallbacks).  It is a frozen
 record: the pipeline builds it once and nothing changes it afterwards.
 
@@ -40,9 +40,9 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from .classify.records import FAMILIES, Classification
+from .classify.classification import FAMILIES, Classification
 from .errors import ClinometryError
-from .metrics.records import POINT_KEYS, MarginMetrics, Metrics
+from .metrics.metric_records import POINT_KEYS, MarginMetrics, Metrics
 from .picking.picks import ClinoformPicks, MarginPicks, PickPoint, Picks
 
 __all__ = [

@@ -2,7 +2,8 @@
 
 A batch is a list of :class:`Task` records, one per 2D file or per inline
 (or crossline) of a 3D volume, keyed by ``(file, direction, line)``.  Paths
-may be files, folders (every ``*.sgy`` / ``*.segy`` inside, sorted) or glob
+may be files, folders (every SEG-Y file inside by its name,
+:data:`clinometry.io.sniff.SEGY_SUFFIXES`, sorted) or glob
 patterns; the expansion is sorted so the same command gives the same tasks
 in the same order, and so the same output names.
 
@@ -28,10 +29,10 @@ from dataclasses import dataclass, field
 from pathlib import Path
 
 from ..errors import ClinometryError, GeometryError
+from ..io.sniff import SEGY_SUFFIXES, has_segy_suffix
 from ..report.files import safe_name
 
 __all__ = [
-    "SEGY_SUFFIXES",
     "Task",
     "TaskOptions",
     "parse_line_spec",
@@ -45,9 +46,6 @@ __all__ = [
 logger = logging.getLogger(__name__)
 
 _SHORT = {"inline": "il", "crossline": "xl"}
-
-#: file name endings taken from a folder (case-insensitive; common practice, no source)
-SEGY_SUFFIXES = (".sgy", ".segy")
 
 
 @dataclass(frozen=True)
@@ -189,7 +187,7 @@ def expand_paths(paths):
         if os.path.isdir(p):
             found = sorted(
                 os.path.join(p, n) for n in os.listdir(p)
-                if n.lower().endswith(SEGY_SUFFIXES) and os.path.isfile(os.path.join(p, n))
+                if has_segy_suffix(n) and os.path.isfile(os.path.join(p, n))
             )
             if not found:
                 problems.append(_problem(p, "", "FileNotFoundError",

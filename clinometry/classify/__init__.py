@@ -1,7 +1,7 @@
 """Margin family of one margin: ramp, rimmed shelf or steep margin.
 
 :func:`classify` takes the metrics of ONE margin (a
-:class:`~clinometry.metrics.records.MarginMetrics` or a plain mapping such
+:class:`~clinometry.metrics.metric_records.MarginMetrics` or a plain mapping such
 as ``{"slope_max_deg": 4.0, "topset_gradient_deg": 0.02}``) and dispatches
 to a classifier plugin of the ``clinometry.classifiers`` entry-point group
 (built-in ``rules``, :func:`clinometry.classify.rules.classify_rules`).
@@ -24,7 +24,7 @@ import os
 
 from .._plugins import load_plugin
 from ..errors import ClinometryError, PluginError
-from .records import FAMILIES, Classification
+from .classification import FAMILIES, Classification
 from .rules import metric_mapping
 from .thresholds import DEFAULT_THRESHOLDS, check_thresholds, default_thresholds, load_thresholds
 

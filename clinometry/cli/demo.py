@@ -22,6 +22,8 @@ from __future__ import annotations
 import logging
 from pathlib import Path
 
+from ..io.sniff import has_segy_suffix
+
 DESCRIPTION = "batch over the bundled synthetic lines and volume (the main job, end to end)"
 EXAMPLE = "clinometry demo --out demo/   # then open demo/index.html"
 
@@ -44,7 +46,7 @@ def configure(parser) -> None:
 
 
 def _has_segy(folder: Path) -> bool:
-    return folder.is_dir() and any(p.suffix.lower() in (".sgy", ".segy") for p in folder.iterdir())
+    return folder.is_dir() and any(has_segy_suffix(p) for p in folder.iterdir())
 
 
 def bundled_inputs():
@@ -124,7 +126,7 @@ def truth_velocities(folder) -> dict:
 
     out = {}
     for seg in sorted(Path(folder).iterdir()):
-        if seg.suffix.lower() not in (".sgy", ".segy"):
+        if not has_segy_suffix(seg):
             continue
         truth = seg.with_name(seg.stem + ".truth.json")
         try:

@@ -1,7 +1,7 @@
 """Foreset slope, relief, flank gradients and curvature of a margin profile.
 
 All numbers are measured on the depth-converted, basinward-oriented profile
-of :mod:`clinometry.metrics.geometry`, so angles are true angles in degrees
+of :mod:`clinometry.metrics.margin_geometry`, so angles are true angles in degrees
 and lengths are metres.  The definitions (also in the README section "How
 the numbers are defined"):
 
@@ -298,7 +298,7 @@ def slope_metrics(
     Parameters
     ----------
     geometry : MarginGeometry
-        From :func:`clinometry.metrics.geometry.margin_geometry`.
+        From :func:`clinometry.metrics.margin_geometry.margin_geometry`.
     base_length_m : float, m, optional
         Base of the maximum-slope secant; default from
         :func:`base_length_m_for`.

@@ -153,7 +153,7 @@ def _trajectory_options(table, uncertainty, seed) -> dict:
 def _finish(section, path, picks, model, vdict, fallback, *, classifier, table, thresholds_source, uncertainty,
             seed, metrics_plugins, run_extra, notes):
     from ..classify import classify
-    from ..metrics import measure as measure_metrics
+    from ..metrics import measure_picks as measure_metrics
 
     metrics = measure_metrics(
         picks, section, velocity=model, metrics=metrics_plugins, uncertainty=uncertainty, seed=seed,

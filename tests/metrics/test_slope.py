@@ -5,7 +5,8 @@ import pytest
 from numpy.testing import assert_allclose
 
 from clinometry.depth import ConstantVelocity, LinearVelocity
-from clinometry.metrics import margin_geometry, measure
+from clinometry.metrics import measure_picks
+from clinometry.metrics.margin_geometry import margin_geometry
 from clinometry.metrics.slope import secant_slope_max_deg, slope_metrics
 
 
@@ -190,7 +191,7 @@ def test_clinoform_heights_and_median(build_margin, planar):
 def test_measure_fills_contract_points(build_margin, planar):
     picks, section = build_margin(planar(10.0), direction="-", dz=0.5)
     before = section.copy(deep=True)
-    mm = measure(picks, section, uncertainty=False).margins[0]
+    mm = measure_picks(picks, section, uncertainty=False).margins[0]
     # break at basinward trace 40 of a "-" line of 121 traces is section trace 80
     assert mm.shelf_break["trace"] == 80
     assert mm.shelf_break["distance_m"] == pytest.approx(80 * 25.0)
@@ -217,7 +218,7 @@ def test_platform_top_point_is_the_rim(build_margin, planar):
         return 200.0 - 8.0 * np.exp(-((x - 800.0) / 50.0) ** 2)
 
     picks, section = build_margin(planar(10.0), top_fn=top)
-    mm = measure(picks, section, uncertainty=False).margins[0]
+    mm = measure_picks(picks, section, uncertainty=False).margins[0]
     assert mm.platform_top["trace"] == 32 and mm.platform_top["depth_m"] == pytest.approx(192.0)
     assert mm.platform_top["horizon_id"] == 1
 
@@ -254,7 +255,7 @@ def test_metrics_on_the_exact_grown_surface_reproduce_the_truth_slope(name):
     b, t = m["break"]["trace"], m["toe"]["trace"]
     h = Horizon(0, "margin_profile", np.arange(n), final.astype(float), np.ones(n))
     mp = MarginPicks(m["direction"], 0, 0, PickPoint(b, float(final[b])), PickPoint(t, float(final[t])))
-    got = measure(Picks(horizons=(h,), margins=(mp,)), sec, metrics=["slope"], uncertainty=False).margins[0].values
+    got = measure_picks(Picks(horizons=(h,), margins=(mp,)), sec, metrics=["slope"], uncertainty=False).margins[0].values
     assert_allclose(got["relief_m"], m["relief_m"], rtol=1e-9)
     assert_allclose(got["slope_mean_deg"], m["slope_mean_deg"], rtol=1e-9)
     assert_allclose(got["slope_max_deg"], m["slope_max_deg"], atol=0.01)

@@ -5,7 +5,7 @@ declivity bands below, and shows how an outside package registers a plugin
 in the ``clinometry.classifiers`` entry-point group (see pyproject.toml).
 """
 
-from clinometry.classify.records import Classification
+from clinometry.classify.classification import Classification
 
 #: upper slope bounds per family, degrees.  Ramps dip "less than 1 degree"
 #: and rimmed-shelf slopes reach a few tens of degrees: Schlager (2005),
