@@ -158,6 +158,11 @@ class Result:
         ``picker_parameters``, ``classifier``, ``thresholds_source``,
         ``thresholds``, ``metrics_plugins``, ``uncertainty``, ``seed``,
         ``fallbacks`` (section attrs plus the velocity default), ``notes``, ``cautions``, ``horizon_source`` ... .
+    horizon_depths_m : tuple of numpy.ndarray
+        Depth (m, positive down) of every point of each horizon of
+        ``picks.horizons``, same order, converted with the run's velocity
+        model (for the horizons table).  Not part of the JSON, like the
+        horizons; empty for a re-read result.
 
     See Also
     --------
@@ -179,12 +184,18 @@ class Result:
     metrics: Metrics
     classifications: tuple = ()
     run: dict = field(default_factory=dict)
+    horizon_depths_m: tuple = field(default=(), compare=False, repr=False)
 
     def __post_init__(self):
         if len(self.classifications) != len(self.metrics.margins):
             raise ValueError(
                 f"Result: {len(self.metrics.margins)} margins measured but "
                 f"{len(self.classifications)} classifications given"
+            )
+        n_horizons = len(self.picks.horizons) if self.picks is not None else 0
+        if self.horizon_depths_m and len(self.horizon_depths_m) != n_horizons:
+            raise ValueError(
+                f"Result: {n_horizons} horizons picked but depths given for {len(self.horizon_depths_m)}"
             )
 
     # ------------------------------------------------------------------ out

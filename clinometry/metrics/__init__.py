@@ -19,7 +19,7 @@ Carlo (:mod:`clinometry.metrics.uncertainty`).  The dispatch lives in
    regulations.
 """
 
-from .dispatch import measure_margin, measure_picks
+from .dispatch import BUILTIN_METRICS, RUN_VALUES, load_metrics, measure_margin, measure_picks, run_values
 from .margin_geometry import MarginGeometry, SurfaceGeometry
 from .metric_records import POINT_KEYS, MarginMetrics, Metrics
 from .uncertainty import UNCERTAINTY_DEFAULTS
@@ -28,6 +28,10 @@ from .uncertainty import UNCERTAINTY_DEFAULTS
 measure = measure_picks
 
 __all__ = [
+    "BUILTIN_METRICS",
+    "RUN_VALUES",
+    "load_metrics",
+    "run_values",
     "measure_picks",
     "measure",
     "measure_margin",

@@ -93,9 +93,9 @@ def test_horizons_option_measures_the_given_horizon(synthetic_line_file, synthet
     path, truth = synthetic_line_file
     section, _ = synthetic_shelf
     # the interpreter's pick: the true final margin profile, sampled every 4th trace, in ms
-    from clinometry.pipeline import analyze_full
+    from clinometry import analyze
 
-    auto, sec, _ = analyze_full(section, velocity=2500.0, uncertainty=False)
+    auto = analyze(section, velocity=2500.0, uncertainty=False)
     prof = auto.picks.horizon(auto.picks.margins[0].profile_id)
     picks = tmp_path / "mine.csv"
     picks.write_text("trace,z\n" + "".join(f"{t},{float(z)!r}\n" for t, z in zip(prof.trace[::4], prof.z[::4])))
@@ -103,13 +103,13 @@ def test_horizons_option_measures_the_given_horizon(synthetic_line_file, synthet
                                    "--no-uncertainty", "--no-plot", "--out", str(tmp_path)])
     assert code == 0, err
     d = json.loads((tmp_path / "shelf_line.json").read_text())
-    assert d["run"]["horizon_source"] == str(picks) and d["run"]["picker"] == "user_horizon"
+    assert d["run"]["horizon_source"] == str(picks) and d["run"]["picker"] == "horizons"
     (m,) = d["margins"]
     assert m["direction"] == truth["margins"][0]["direction"] == "+"
     # the command line gives what the Python API gives for the same file and horizon
-    from clinometry import measure, read_section
+    from clinometry import measure_horizon, read_section
 
-    api = measure(picks, read_section(path), velocity=2500.0, uncertainty=False).to_dict()
+    api = measure_horizon(picks, read_section(path), velocity=2500.0, uncertainty=False).to_dict()
     assert api["margins"] == d["margins"]
 
 

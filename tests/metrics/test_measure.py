@@ -96,6 +96,6 @@ def test_plugin_options_reach_the_plugin(build_margin, planar):
     picks, section = build_margin(planar(12.0), clinoforms=clinos, dz=0.5)
     default = measure_picks(picks, section, metrics=["trajectory"], uncertainty=False).margins[0].trajectory
     wide = measure_picks(picks, section, metrics=["trajectory"], uncertainty=False,
-                   options={"trajectory": {"flat_deg": 1.0}}).margins[0].trajectory
+                   metric_options={"trajectory": {"flat_deg": 1.0}}).margins[0].trajectory
     assert default["angle_deg"] == pytest.approx(np.degrees(np.arctan(0.01)))
     assert (default["class"], wide["class"]) == ("ascending", "flat")

@@ -34,11 +34,11 @@ def demo_installed(tmp_path_factory):
     )
     assert proc.returncode == 0, f"pip could not install the demo plugin:\n{proc.stdout}\n{proc.stderr}"
     sys.path.insert(0, str(target))
-    _plugins._clear_cache()
+    _plugins.clear_cache()
     yield target
     sys.path.remove(str(target))
     sys.modules.pop("clinometry_demo_plugin", None)
-    _plugins._clear_cache()
+    _plugins.clear_cache()
 
 
 def test_installed_distribution_registers_demo_classifier(demo_installed):
