@@ -203,11 +203,8 @@ def check_options(kind: str, name: str, func, options, *, passed=()) -> None:
 
     Parameters
     ----------
-    kind : {"picker", "metric", "classifier"}
-    name : str
-        Plugin name, for messages.
-    func : callable
-        The loaded plugin.
+    kind, name, func
+        As for :func:`check_signature` (the loaded plugin).
     options : mapping of str -> object
         The keyword options about to be passed.
     passed : iterable of str

@@ -21,14 +21,7 @@ options) -> dict``.  The keys ``"clinoforms"``, ``"trajectory"`` and
 ``"missing"`` of its dict fill the matching fields of
 :class:`~clinometry.metrics.metric_records.MarginMetrics`; every other key is a
 named value whose name ends in its unit (see :mod:`clinometry.plugins`).
-
-.. caution::
-   Slopes, depths and reliefs measured on seismic are interpretation aids
-   with the uncertainty reported beside them; they rest on the velocity
-   model and the picks.  Do not use them on their own for well planning,
-   drilling, geohazard or storage-site decisions: calibrate with well ties,
-   have the results reviewed by licensed professionals, and follow local
-   regulations.
+The cautions of :mod:`clinometry.metrics` apply to every number made here.
 """
 
 from __future__ import annotations

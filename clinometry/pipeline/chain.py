@@ -257,13 +257,9 @@ def analyze(path_or_section, options: AnalysisOptions | None = None, *, inline=N
 
     Parameters
     ----------
-    path_or_section : str, os.PathLike or xarray.DataArray
-        A SEG-Y file (2D line, or one line of a 3D volume with ``inline=`` /
-        ``crossline=``) or a section with dims ("trace", "z").
-    options : AnalysisOptions, optional
-        Every choice of the run.
-    inline, crossline : int, optional
-        Line of a 3D volume.
+    path_or_section, options, inline, crossline
+        As for :func:`run_analysis`: the SEG-Y file or section, and the line
+        of a 3D volume.
     **option_keywords
         Any field of :class:`AnalysisOptions` (``velocity``,
         ``velocity_linear``, ``velocity_file``, ``velocity_kind``, ``domain``,
