@@ -76,7 +76,7 @@ def load_metrics(metrics=None, metric_options=None, *, run_value_names=RUN_VALUE
     ------
     PluginError
         An unknown or broken metric, a signature that does not fit
-        (:func:`clinometry._plugins.check_signature`), options for a metric
+        (:func:`clinometry.plugins.check_signature`), options for a metric
         that is not run, or options a metric does not declare.
     """
     names = BUILTIN_METRICS if metrics is None else (metrics,) if isinstance(metrics, str) else tuple(metrics)

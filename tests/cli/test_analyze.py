@@ -177,3 +177,17 @@ def test_inline_of_3d_volume_gets_its_own_stem(tmp_path, capsys):
     assert (d["source"]["inline"], d["source"]["line_label"], d["source"]["n_traces"]) == (120, "inline 120", 120)
     code, out, err = _run(capsys, ["analyze", str(CUBE), "--out", str(tmp_path)])
     assert code == 2 and "curved_margin_cube.sgy" in err and err.count("\n") == 1
+
+
+def test_horizons_picker_needs_a_horizon_file_and_another_picker_refuses_one(synthetic_line_file, tmp_path, capsys):
+    # usage errors are one line on stderr with exit code 2 (common practice, no source)
+    path, _ = synthetic_line_file
+    code, _, err = _run(capsys, ["analyze", str(path), "--picker", "horizons", "--out", str(tmp_path)])
+    assert code == 2
+    assert err == ("clinometry: error: the 'horizons' picker reads the interpreter's horizon: give horizons= "
+                   "(--horizons FILE.csv)\n")
+    code, _, err = _run(capsys, ["analyze", str(path), "--picker", "default", "--horizons", "mine.csv",
+                                 "--out", str(tmp_path)])
+    assert code == 2
+    assert "is read by the 'horizons' picker, but picker 'default' was chosen" in err
+    assert not list(tmp_path.iterdir())
