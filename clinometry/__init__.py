@@ -5,7 +5,7 @@ classification -> result -> reports/batch.  The public API is re-exported
 here by name.
 """
 
-__version__ = "0.1.0"
+from ._version import __version__  # noqa: F401
 
 from .errors import (  # noqa: F401
     ClinometryError,
@@ -25,7 +25,7 @@ from .io import read_section  # noqa: F401
 from .picking import pick  # noqa: F401
 from .classify import classify  # noqa: F401
 from .result import Result  # noqa: F401
-from .pipeline import analyze, measure  # noqa: F401
+from .pipeline import AnalysisOptions, LineAnalysis, analyze, measure, measure_horizon, run_analysis  # noqa: F401
 
 __all__ = [
     "__version__",
@@ -46,6 +46,10 @@ __all__ = [
     "pick",
     "classify",
     "Result",
+    "AnalysisOptions",
+    "LineAnalysis",
+    "run_analysis",
     "analyze",
+    "measure_horizon",
     "measure",
 ]

@@ -2,8 +2,8 @@
 
 A :class:`Result` gathers what each step returned -- the source and velocity
 model, the :class:`~clinometry.picking.picks.Picks`, the
-:class:`~clinometry.metrics.records.Metrics` and one
-:class:`~clinometry.classify.records.Classification` per margin -- plus how
+:class:`~clinometry.metrics.metric_records.Metrics` and one
+:class:`~clinometry.classify.classification.Classification` per margin -- plus how
 the run was made (plugins, thresholds, seed, fallbacks).  It is a frozen
 record: the pipeline builds it once and nothing changes it afterwards.
 
@@ -40,9 +40,9 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from .classify.records import FAMILIES, Classification
+from .classify.classification import FAMILIES, Classification
 from .errors import ClinometryError
-from .metrics.records import POINT_KEYS, MarginMetrics, Metrics
+from .metrics.metric_records import POINT_KEYS, MarginMetrics, Metrics
 from .picking.picks import ClinoformPicks, MarginPicks, PickPoint, Picks
 
 __all__ = [
@@ -158,6 +158,11 @@ class Result:
         ``picker_parameters``, ``classifier``, ``thresholds_source``,
         ``thresholds``, ``metrics_plugins``, ``uncertainty``, ``seed``,
         ``fallbacks`` (section attrs plus the velocity default), ``notes``, ``cautions``, ``horizon_source`` ... .
+    horizon_depths_m : tuple of numpy.ndarray
+        Depth (m, positive down) of every point of each horizon of
+        ``picks.horizons``, same order, converted with the run's velocity
+        model (for the horizons table).  Not part of the JSON, like the
+        horizons; empty for a re-read result.
 
     See Also
     --------
@@ -179,12 +184,18 @@ class Result:
     metrics: Metrics
     classifications: tuple = ()
     run: dict = field(default_factory=dict)
+    horizon_depths_m: tuple = field(default=(), compare=False, repr=False)
 
     def __post_init__(self):
         if len(self.classifications) != len(self.metrics.margins):
             raise ValueError(
                 f"Result: {len(self.metrics.margins)} margins measured but "
                 f"{len(self.classifications)} classifications given"
+            )
+        n_horizons = len(self.picks.horizons) if self.picks is not None else 0
+        if self.horizon_depths_m and len(self.horizon_depths_m) != n_horizons:
+            raise ValueError(
+                f"Result: {n_horizons} horizons picked but depths given for {len(self.horizon_depths_m)}"
             )
 
     # ------------------------------------------------------------------ out

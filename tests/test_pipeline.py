@@ -1,4 +1,4 @@
-"""analyze() and measure() on sections: the whole chain, checked against the
+"""analyze() and measure_horizon() on sections: the whole chain, checked against the
 forward model's ground truth and against textbook time-depth formulas.
 
 The synthetic line (``rimmed_shelf`` scenario, constant 2500 m/s) comes from
@@ -14,8 +14,9 @@ import pytest
 import xarray as xr
 
 from clinometry.errors import ClinometryError
+from clinometry.pipeline import AnalysisOptions
 from clinometry.picking.picks import Horizon
-from clinometry.pipeline import analyze, analyze_full, measure
+from clinometry.pipeline import analyze, measure_horizon, run_analysis
 from clinometry.result import Result, validate_result_dict
 from clinometry.section import make_section
 
@@ -110,7 +111,7 @@ def test_line_without_margin_gives_empty_margins_with_note():
 def test_analyze_leaves_input_section_untouched(synthetic_shelf):
     section, _ = synthetic_shelf
     before = section.copy(deep=True)
-    analyze_full(section, velocity=V_M_S, uncertainty=False)
+    run_analysis(section, AnalysisOptions(velocity=V_M_S, uncertainty=False))
     xr.testing.assert_identical(section, before)
 
 
@@ -132,7 +133,7 @@ def _foreset_horizon(dip_deg=20.0, relief_ms=300.0, n=200, dx=25.0):
 
 def test_measure_user_horizon_recovers_true_dip_and_relief():
     sec, h = _foreset_horizon(dip_deg=20.0, relief_ms=300.0)
-    d = measure(h, sec, velocity=V_M_S, uncertainty=False).to_dict()
+    d = measure_horizon(h, sec, velocity=V_M_S, uncertainty=False).to_dict()
     (m,) = d["margins"]
     assert m["direction"] == "+"
     # 20 deg true dip and 300 ms * 2500 m/s / 2 = 375 m relief by construction (formulas above)
@@ -141,22 +142,22 @@ def test_measure_user_horizon_recovers_true_dip_and_relief():
     # break at the top of the foreset (x = 2000 m), toe where it reaches 700 ms (x = 3030 m)
     npt.assert_allclose(m["break"]["distance_m"], 2000.0, atol=100.0)
     npt.assert_allclose(m["toe"]["distance_m"], 2000.0 + 375.0 / np.tan(np.radians(20.0)), atol=100.0)
-    assert d["run"]["picker"] == "user_horizon"
+    assert d["run"]["picker"] == "horizons"
 
 
 def test_measure_from_csv_equals_measure_from_horizon(tmp_path):
     sec, h = _foreset_horizon()
     csv = tmp_path / "my_pick.csv"
     csv.write_text("trace,z\n" + "".join(f"{t},{float(z)!r}\n" for t, z in zip(h.trace, h.z)))
-    a = measure(h, sec, velocity=V_M_S, uncertainty=False).to_dict()
-    b = measure(csv, sec, velocity=V_M_S, uncertainty=False).to_dict()
+    a = measure_horizon(h, sec, velocity=V_M_S, uncertainty=False).to_dict()
+    b = measure_horizon(csv, sec, velocity=V_M_S, uncertainty=False).to_dict()
     assert b["run"]["horizon_source"] == str(csv)
     assert a["margins"] == b["margins"]
 
 
 def test_measure_flat_user_horizon_has_no_margin_and_says_why():
     sec, h = _foreset_horizon(relief_ms=0.0)
-    d = measure(h, sec, velocity=V_M_S, uncertainty=False).to_dict()
+    d = measure_horizon(h, sec, velocity=V_M_S, uncertainty=False).to_dict()
     assert d["margins"] == []
     assert any("no leg of the horizon deepens basinward" in n for n in d["run"]["notes"])
 
@@ -164,20 +165,20 @@ def test_measure_flat_user_horizon_has_no_margin_and_says_why():
 def test_measure_mirrored_horizon_faces_minus():
     sec, h = _foreset_horizon()
     hm = Horizon(id=0, role="user", trace=h.trace, z=h.z[::-1].copy(), quality=h.quality)
-    (m,) = measure(hm, sec, velocity=V_M_S, uncertainty=False).to_dict()["margins"]
+    (m,) = measure_horizon(hm, sec, velocity=V_M_S, uncertainty=False).to_dict()["margins"]
     assert m["direction"] == "-"
     npt.assert_allclose(m["slope_max_deg"], 20.0, atol=1.0)
 
 
 def test_uncertainty_gives_ordered_percentiles():
     sec, h = _foreset_horizon()
-    d = measure(h, sec, velocity=V_M_S, uncertainty=True, seed=3).to_dict()
+    d = measure_horizon(h, sec, velocity=V_M_S, uncertainty=True, seed=3).to_dict()
     unc = d["margins"][0]["uncertainty"]
     assert "relief_m" in unc
     p = unc["relief_m"]
     assert p["p10"] <= p["p50"] <= p["p90"]
     # the same seed gives the same draws
-    assert measure(h, sec, velocity=V_M_S, uncertainty=True, seed=3).to_dict()["margins"] == d["margins"]
+    assert measure_horizon(h, sec, velocity=V_M_S, uncertainty=True, seed=3).to_dict()["margins"] == d["margins"]
 
 
 # --------------------------------------------------------------------------
@@ -277,10 +278,10 @@ def test_bundled_line_trajectory_class_matches_truth(name):
 
 def test_thresholds_toml_override_changes_family_and_is_recorded(tmp_path):
     sec, h = _foreset_horizon(dip_deg=20.0)
-    base = measure(h, sec, velocity=V_M_S, uncertainty=False).to_dict()
+    base = measure_horizon(h, sec, velocity=V_M_S, uncertainty=False).to_dict()
     toml = tmp_path / "my_limits.toml"
     toml.write_text("[thresholds]\nsteep_min_slope_deg = 15.0\ndistal_steepening_max_slope_deg = 10.0\n")
-    d = measure(h, sec, velocity=V_M_S, uncertainty=False, thresholds=toml).to_dict()
+    d = measure_horizon(h, sec, velocity=V_M_S, uncertainty=False, thresholds=toml).to_dict()
     # a 20 degree foreset: below the default steep-margin bound (30 deg, Schlager & Ginsburg 1981;
     # Kenter 1990, from memory), above the 15 deg bound given in the file
     assert base["margins"][0]["family"] == "rimmed_shelf"
@@ -294,7 +295,7 @@ def test_unknown_classifier_fails_before_picking_and_lists_installed():
 
     sec, h = _foreset_horizon()
     with pytest.raises(PluginError, match=r"no classifier plugin named 'nope'; installed: .*rules"):
-        measure(h, sec, velocity=V_M_S, classifier="nope")
+        measure_horizon(h, sec, velocity=V_M_S, classifier="nope")
 
 
 def test_default_run_reports_p10_p50_p90_of_slope_relief_and_break_depth():
@@ -302,7 +303,7 @@ def test_default_run_reports_p10_p50_p90_of_slope_relief_and_break_depth():
     # scales every depth, so relief P10/P90 ~ relief * (1 -/+ 1.2816 * 0.08) (z of the 90th
     # percentile, standard normal table) plus a little pick error
     sec, h = _foreset_horizon(dip_deg=20.0, relief_ms=300.0)
-    d = measure(h, sec, velocity=V_M_S).to_dict()
+    d = measure_horizon(h, sec, velocity=V_M_S).to_dict()
     (m,) = d["margins"]
     unc = m["uncertainty"]
     for key in ("slope_max_deg", "slope_mean_deg", "relief_m", "break_depth_m"):

@@ -13,9 +13,9 @@ import numpy as np
 import numpy.testing as npt
 import pytest
 
-from clinometry.classify.records import FAMILIES, Classification
+from clinometry.classify.classification import FAMILIES, Classification
 from clinometry.errors import ClinometryError
-from clinometry.metrics.records import POINT_KEYS, MarginMetrics, Metrics
+from clinometry.metrics.metric_records import POINT_KEYS, MarginMetrics, Metrics
 from clinometry.picking.picks import ClinoformPicks, Horizon, MarginPicks, PickPoint, Picks
 from clinometry.result import (
     REQUIRED_MARGIN_KEYS,

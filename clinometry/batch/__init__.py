@@ -7,7 +7,7 @@ map figures and ``index.html`` at the end, so ``resume=True`` neither loses
 nor duplicates rows.
 """
 
-from .run import BatchSummary, collect_tables, run_batch
+from .execution import BatchSummary, collect_tables, run_batch
 from .tasks import Task, TaskOptions, expand_paths, is_complete, parse_line_spec, plan_tasks, run_task
 
 __all__ = [

@@ -2,14 +2,16 @@
 
 A batch is a list of :class:`Task` records, one per 2D file or per inline
 (or crossline) of a 3D volume, keyed by ``(file, direction, line)``.  Paths
-may be files, folders (every ``*.sgy`` / ``*.segy`` inside, sorted) or glob
+may be files, folders (every SEG-Y file inside by its name,
+:data:`clinometry.io.sniff.SEGY_SUFFIXES`, sorted) or glob
 patterns; the expansion is sorted so the same command gives the same tasks
 in the same order, and so the same output names.
 
 :func:`run_task` is the one function that runs a task, in this process, in
 a worker of a local process pool or on a Dask worker: it reads the line,
-runs :func:`clinometry.pipeline.analyze_full` with the same seed for the same
-task wherever it runs, writes the line's files atomically and returns a small
+runs :func:`clinometry.pipeline.run_analysis` with the run's
+:class:`~clinometry.pipeline.AnalysisOptions` (the same seed for the same
+task wherever it runs), writes the line's files atomically and returns a small
 plain record.  It never raises for a bad line: the error type and message go
 into the record and from there into ``errors.csv``, and the batch goes on.
 
@@ -24,14 +26,15 @@ import glob
 import json
 import logging
 import os
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 from pathlib import Path
 
 from ..errors import ClinometryError, GeometryError
-from ..report.files import safe_name
+from ..io.sniff import SEGY_SUFFIXES, has_segy_suffix
+from ..pipeline import AnalysisOptions
+from ..report.atomic import safe_name
 
 __all__ = [
-    "SEGY_SUFFIXES",
     "Task",
     "TaskOptions",
     "parse_line_spec",
@@ -45,9 +48,6 @@ __all__ = [
 logger = logging.getLogger(__name__)
 
 _SHORT = {"inline": "il", "crossline": "xl"}
-
-#: file name endings taken from a folder (case-insensitive; common practice, no source)
-SEGY_SUFFIXES = (".sgy", ".segy")
 
 
 @dataclass(frozen=True)
@@ -63,7 +63,7 @@ class Task:
     line : int or None
         Inline or crossline number of a 3D volume.
     stem : str
-        Output file stem, safe (see :func:`clinometry.report.files.safe_name`).
+        Output file stem, safe (see :func:`clinometry.report.atomic.safe_name`).
     """
 
     path: str
@@ -84,24 +84,15 @@ class Task:
 
 @dataclass(frozen=True)
 class TaskOptions:
-    """Options shared by every task of a run (plain values: they are pickled to workers).
+    """What every task of a run shares (plain values: they are pickled to workers).
 
     Attributes
     ----------
     out_dir : str
-    velocity : float, m/s, optional
-    velocity_linear : (float, float), optional
-        ``(v0_m_s, k_per_s)``.
-    velocity_file : str, optional
-    velocity_kind : {"interval", "rms"}
-        How the velocities of ``velocity_file`` are meant.
-    domain : {"twt", "depth"}, optional
-    picker, classifier : str
-    thresholds : str, optional
-        TOML file.
-    uncertainty : bool
-    seed : int
+    analysis : AnalysisOptions
+        How every line is analysed.
     plot : bool
+        Write a QC figure per line.
     file_velocity : dict
         Absolute file path -> ``{"velocity": v_m_s}`` or
         ``{"velocity_linear": (v0_m_s, k_per_s)}`` for files whose velocity
@@ -109,18 +100,16 @@ class TaskOptions:
     """
 
     out_dir: str
-    velocity: float | None = None
-    velocity_linear: tuple | None = None
-    velocity_file: str | None = None
-    velocity_kind: str = "interval"
-    domain: str | None = None
-    picker: str = "default"
-    classifier: str = "rules"
-    thresholds: str | None = None
-    uncertainty: bool = True
-    seed: int = 0
+    analysis: AnalysisOptions = field(default_factory=AnalysisOptions)
     plot: bool = True
     file_velocity: dict = field(default_factory=dict)
+
+    def analysis_for(self, path) -> AnalysisOptions:
+        """The analysis options of one file: the run's, with that file's own velocity if it has one."""
+        own = self.file_velocity.get(path)
+        if not own:
+            return self.analysis
+        return replace(self.analysis, **{"velocity": None, "velocity_linear": None, "velocity_file": None, **own})
 
 
 def parse_line_spec(spec):
@@ -189,7 +178,7 @@ def expand_paths(paths):
         if os.path.isdir(p):
             found = sorted(
                 os.path.join(p, n) for n in os.listdir(p)
-                if n.lower().endswith(SEGY_SUFFIXES) and os.path.isfile(os.path.join(p, n))
+                if has_segy_suffix(n) and os.path.isfile(os.path.join(p, n))
             )
             if not found:
                 problems.append(_problem(p, "", "FileNotFoundError",
@@ -304,16 +293,16 @@ def output_names(stem, *, plot=True):
 def _settings_differ(d, task, options):
     """Why a stored result was made with other settings than ``options`` ("" when it was not)."""
     run = d.get("run") or {}
-    if run.get("seed") != options.seed:
-        return f"seed {run.get('seed')} != {options.seed}"
-    for key in ("picker", "classifier"):
-        if run.get(key) != getattr(options, key):
-            return f"{key} {run.get(key)!r} != {getattr(options, key)!r}"
-    if bool(run.get("uncertainty")) != bool(options.uncertainty):
+    analysis = options.analysis_for(task.path)
+    if run.get("seed") != analysis.seed:
+        return f"seed {run.get('seed')} != {analysis.seed}"
+    for key, want in (("picker", analysis.picker_name), ("classifier", analysis.classifier)):
+        if run.get(key) != want:
+            return f"{key} {run.get(key)!r} != {want!r}"
+    if bool(run.get("uncertainty")) != bool(analysis.uncertainty):
         return "uncertainty on/off differs"
     vel = d.get("velocity") or {}
-    want = options.file_velocity.get(task.path) or {"velocity": options.velocity,
-                                                    "velocity_linear": options.velocity_linear}
+    want = {"velocity": analysis.velocity, "velocity_linear": analysis.velocity_linear}
     if want.get("velocity") is not None:
         if vel.get("model") != "constant" or vel.get("velocity_m_s") != float(want["velocity"]):
             return f"velocity {vel} is not constant {want['velocity']} m/s"
@@ -391,36 +380,16 @@ def run_task(task, options) -> dict:
     ``SystemExit`` are not caught.  The files of a failed line (also older
     ones of the same name) are removed, so no table picks them up.
     """
-    from ..pipeline import analyze_full
-    from ..report.files import write_result_files
+    from ..pipeline import run_analysis
+    from ..report.line_files import write_line_files
 
     rec = {"key": list(task.key), "stem": task.stem, "file": task.path, "line": task.label, "status": "failed",
            "n_margins": 0, "error_type": "", "message": ""}
-    kwargs = {}
-    if task.direction == "inline":
-        kwargs["inline"] = task.line
-    elif task.direction == "crossline":
-        kwargs["crossline"] = task.line
-    vel = {"velocity": options.velocity,
-           "velocity_linear": tuple(options.velocity_linear) if options.velocity_linear else None,
-           "velocity_file": options.velocity_file}
-    if task.path in options.file_velocity:
-        vel = {"velocity": None, "velocity_linear": None, "velocity_file": None, **options.file_velocity[task.path]}
+    line = {task.direction: task.line} if task.direction in ("inline", "crossline") else {}
     try:
-        result, section, model = analyze_full(
-            task.path,
-            **vel,
-            velocity_kind=options.velocity_kind,
-            domain=options.domain,
-            picker=options.picker,
-            classifier=options.classifier,
-            thresholds=options.thresholds,
-            uncertainty=options.uncertainty,
-            seed=options.seed,
-            **kwargs,
-        )
-        write_result_files(result, options.out_dir, stem=task.stem, plot=options.plot, section=section,
-                           velocity=model)
+        analysis = run_analysis(task.path, options.analysis_for(task.path), **line)
+        result = analysis.result
+        write_line_files(result, options.out_dir, stem=task.stem, plot=options.plot, section=analysis.section)
     except Exception as err:  # fault tolerance: one bad line must not stop the batch
         logger.info("%s %s: %s: %s", os.path.basename(task.path), task.label, type(err).__name__, err)
         _remove_outputs(task, options.out_dir)

@@ -1,7 +1,7 @@
 """Margin family of one margin: ramp, rimmed shelf or steep margin.
 
 :func:`classify` takes the metrics of ONE margin (a
-:class:`~clinometry.metrics.records.MarginMetrics` or a plain mapping such
+:class:`~clinometry.metrics.metric_records.MarginMetrics` or a plain mapping such
 as ``{"slope_max_deg": 4.0, "topset_gradient_deg": 0.02}``) and dispatches
 to a classifier plugin of the ``clinometry.classifiers`` entry-point group
 (built-in ``rules``, :func:`clinometry.classify.rules.classify_rules`).
@@ -20,13 +20,19 @@ mapping or a TOML file.
 from __future__ import annotations
 
 import logging
-import os
 
-from .._plugins import load_plugin
+from .._plugins import check_options, load_plugin
 from ..errors import ClinometryError, PluginError
-from .records import FAMILIES, Classification
+from .classification import FAMILIES, Classification
 from .rules import metric_mapping
-from .thresholds import DEFAULT_THRESHOLDS, check_thresholds, default_thresholds, load_thresholds
+from .thresholds import (
+    DEFAULT_THRESHOLDS,
+    ResolvedThresholds,
+    check_thresholds,
+    default_thresholds,
+    load_thresholds,
+    resolve_thresholds,
+)
 
 __all__ = [
     "classify",
@@ -36,6 +42,8 @@ __all__ = [
     "default_thresholds",
     "load_thresholds",
     "check_thresholds",
+    "ResolvedThresholds",
+    "resolve_thresholds",
 ]
 
 logger = logging.getLogger(__name__)
@@ -50,9 +58,10 @@ def classify(margin_metrics_or_mapping, *, classifier: str = "rules", thresholds
         Metrics of one margin (names end in their unit, e.g. ``slope_max_deg``).
     classifier : str
         Name of a ``clinometry.classifiers`` plugin.
-    thresholds : None, mapping, str or os.PathLike
-        None for the defaults, a mapping of overrides, or a TOML file
-        (:func:`load_thresholds`).
+    thresholds : None, mapping, str, os.PathLike or ResolvedThresholds
+        None for the defaults, a mapping of overrides, a TOML file
+        (:func:`load_thresholds`), or a table resolved once for a whole run
+        (:func:`resolve_thresholds`).
 
     Returns
     -------
@@ -63,24 +72,21 @@ def classify(margin_metrics_or_mapping, *, classifier: str = "rules", thresholds
     ThresholdsError
         Invalid threshold overrides.
     PluginError
-        Unknown classifier, one that fails, or one that does not return a
-        :class:`Classification`.
+        Unknown classifier, one whose signature does not fit (see
+        :mod:`clinometry.plugins`), one that fails, or one that does not
+        return a :class:`Classification`.
 
     Examples
     --------
     >>> classify({"slope_max_deg": 12.0, "topset_gradient_deg": 0.0}).family
     'rimmed_shelf'
     """
-    if thresholds is None:
-        table = default_thresholds()
-    elif isinstance(thresholds, (str, os.PathLike)):
-        table = load_thresholds(thresholds)
-    else:
-        table = check_thresholds(thresholds, where="thresholds")
+    table = resolve_thresholds(thresholds).table
     func = load_plugin("classifier", classifier)
+    check_options("classifier", classifier, func, {}, passed=("thresholds",))
     m = metric_mapping(margin_metrics_or_mapping)
     try:
-        out = func(m, thresholds=table)
+        out = func(m, thresholds=dict(table))
     except ClinometryError:
         raise
     except Exception as err:

@@ -41,7 +41,7 @@ import math
 import numpy as np
 
 from ..metrics.trajectory import P10_P90_SIGMAS
-from .records import FAMILIES, Classification
+from .classification import FAMILIES, Classification
 from .thresholds import DEFAULT_THRESHOLDS, check_thresholds
 
 __all__ = ["classify_rules", "metric_mapping"]

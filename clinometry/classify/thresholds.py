@@ -27,9 +27,17 @@ from dataclasses import dataclass
 from types import MappingProxyType
 
 from ..errors import ThresholdsError
-from ..metrics.trajectory import TRAJECTORY_FLAT_DEG
+from ..definitions import TRAJECTORY_FLAT_DEG
 
-__all__ = ["Threshold", "DEFAULT_THRESHOLDS", "default_thresholds", "check_thresholds", "load_thresholds"]
+__all__ = [
+    "Threshold",
+    "DEFAULT_THRESHOLDS",
+    "default_thresholds",
+    "check_thresholds",
+    "load_thresholds",
+    "ResolvedThresholds",
+    "resolve_thresholds",
+]
 
 logger = logging.getLogger(__name__)
 
@@ -222,3 +230,58 @@ def load_thresholds(path) -> dict:
     out = check_thresholds(data, where=name)
     logger.info("%s: %d threshold(s) overridden", name, len(data))
     return out
+
+
+#: how the built-in table is named in the results (``run.thresholds_source``)
+BUILTIN_SOURCE = "built-in table (clinometry.classify.thresholds.DEFAULT_THRESHOLDS)"
+
+
+@dataclass(frozen=True)
+class ResolvedThresholds:
+    """A full, checked threshold table and where it came from: resolved once per run.
+
+    Attributes
+    ----------
+    table : dict of str -> float
+        Every key of :data:`DEFAULT_THRESHOLDS`.
+    source : str
+        The TOML file, ``"mapping given by the caller"`` or the built-in
+        table, as recorded in ``run.thresholds_source``.
+    """
+
+    table: dict
+    source: str
+
+
+def resolve_thresholds(thresholds=None) -> ResolvedThresholds:
+    """The one way from what a caller gives to the full threshold table.
+
+    Parameters
+    ----------
+    thresholds : None, str, os.PathLike, mapping or ResolvedThresholds
+        None for the defaults, a TOML file (:func:`load_thresholds`), a
+        mapping of overrides (:func:`check_thresholds`), or a table resolved
+        before (returned as it is, not checked again).
+
+    Returns
+    -------
+    ResolvedThresholds
+
+    Raises
+    ------
+    ThresholdsError
+        As :func:`load_thresholds` and :func:`check_thresholds`.
+
+    Examples
+    --------
+    >>> r = resolve_thresholds({"steep_min_slope_deg": 35})
+    >>> r.table["steep_min_slope_deg"], r.source, resolve_thresholds(r) is r
+    (35.0, 'mapping given by the caller', True)
+    """
+    if isinstance(thresholds, ResolvedThresholds):
+        return thresholds
+    if thresholds is None:
+        return ResolvedThresholds(default_thresholds(), BUILTIN_SOURCE)
+    if isinstance(thresholds, (str, os.PathLike)):
+        return ResolvedThresholds(load_thresholds(thresholds), str(thresholds))
+    return ResolvedThresholds(check_thresholds(thresholds, where="thresholds"), "mapping given by the caller")

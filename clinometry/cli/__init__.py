@@ -18,6 +18,7 @@ import importlib
 import logging
 import sys
 
+from .._version import __version__
 from ..errors import ClinometryError
 
 __all__ = ["main", "SUBCOMMANDS"]
@@ -33,12 +34,6 @@ SUBCOMMANDS = {
 }
 
 
-def _version() -> str:
-    from .. import __version__
-
-    return __version__
-
-
 def build_parser() -> argparse.ArgumentParser:
     parser = argparse.ArgumentParser(
         prog="clinometry",
@@ -46,7 +41,7 @@ def build_parser() -> argparse.ArgumentParser:
         formatter_class=argparse.RawDescriptionHelpFormatter,
         epilog="example:\n  clinometry analyze line_07.sgy --velocity 2800 --out results/",
     )
-    parser.add_argument("--version", action="version", version=f"clinometry {_version()}")
+    parser.add_argument("--version", action="version", version=f"clinometry {__version__}")
     parser.add_argument("-v", "--verbose", action="count", default=0, help="more log output on stderr (-v INFO, -vv DEBUG)")
     parser.add_argument("--debug", action="store_true", help="show a traceback on errors")
     sub = parser.add_subparsers(dest="command", metavar="COMMAND")

@@ -18,8 +18,6 @@ from __future__ import annotations
 import logging
 from pathlib import Path
 
-from .._plugins import plugin_names
-
 DESCRIPTION = "analyze one line: picks, slope, relief, trajectory and margin family"
 EXAMPLE = "clinometry analyze line_07.sgy --velocity 2800 --out results/"
 
@@ -36,27 +34,13 @@ logger = logging.getLogger(__name__)
 
 def configure(parser) -> None:
     """Add the options of ``clinometry analyze`` to ``parser``."""
-    from ._velocity import add_velocity_options
+    from ._options import add_analysis_options
 
     parser.add_argument("file", help="SEG-Y file (2D line or 3D volume with --inline/--crossline)")
-    add_velocity_options(parser)
     line = parser.add_mutually_exclusive_group()
     line.add_argument("--inline", type=int, metavar="N", help="inline number of a 3D volume to analyze")
     line.add_argument("--crossline", type=int, metavar="N", help="crossline number of a 3D volume to analyze")
-    parser.add_argument(
-        "--horizons", metavar="PICKS.csv",
-        help="your own margin horizon: CSV with columns 'trace' (0-based) or 'x','y' (m), and 'z' "
-        "(ms TWT or m depth, as the section); replaces the automatic picker",
-    )
-    parser.add_argument("--picker", default="default", choices=plugin_names("picker"),
-                        help="picker plugin (default: %(default)s)")
-    parser.add_argument("--classifier", default="rules", choices=plugin_names("classifier"),
-                        help="classifier plugin (default: %(default)s)")
-    parser.add_argument("--thresholds", metavar="FILE.toml",
-                        help="TOML file overriding the classification thresholds")
-    parser.add_argument("--no-uncertainty", action="store_true",
-                        help="skip the Monte-Carlo P10/P50/P90 of slope and relief")
-    parser.add_argument("--seed", type=int, default=0, help="seed of the random draws (default: %(default)s)")
+    add_analysis_options(parser, horizons=True)
     parser.add_argument("--out", required=True, metavar="DIR", help="output folder (created if missing)")
     parser.add_argument("--no-plot", action="store_true", help="do not write the QC plot")
 
@@ -72,27 +56,13 @@ def _stem(args) -> str:
 
 def run(args) -> int:
     """Run ``clinometry analyze``; 0 when the files were written."""
-    from ..pipeline import analyze_full
-    from ..report.files import write_result_files
+    from ..pipeline import run_analysis
+    from ..report.line_files import write_line_files
+    from ._options import analysis_options
 
-    result, section, model = analyze_full(
-        args.file,
-        velocity=getattr(args, "velocity", None),
-        velocity_linear=getattr(args, "velocity_linear", None),
-        velocity_file=getattr(args, "velocity_file", None),
-        velocity_kind=getattr(args, "velocity_kind", "interval") or "interval",
-        domain=getattr(args, "domain", None),
-        inline=args.inline,
-        crossline=args.crossline,
-        picker=args.picker,
-        classifier=args.classifier,
-        thresholds=args.thresholds,
-        uncertainty=not args.no_uncertainty,
-        seed=args.seed,
-        horizons=args.horizons,
-    )
-    paths = write_result_files(result, args.out, stem=_stem(args), plot=not args.no_plot,
-                               section=section, velocity=model)
+    analysis = run_analysis(args.file, analysis_options(args), inline=args.inline, crossline=args.crossline)
+    result = analysis.result
+    paths = write_line_files(result, args.out, stem=_stem(args), plot=not args.no_plot, section=analysis.section)
     name = Path(args.file).name
     print(f"{name}: {result.n_margins} margin(s); results in {paths['json']}")
     for line in result.summary_lines():

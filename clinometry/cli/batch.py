@@ -44,7 +44,7 @@ def _positive_int(text):
 
 def add_batch_options(parser) -> None:
     """Options shared by ``batch`` and ``demo`` (everything except the inputs)."""
-    from ._velocity import add_velocity_options
+    from ._options import add_analysis_options
 
     parser.add_argument("--out", required=True, metavar="DIR", help="output folder (created if missing)")
     parser.add_argument("--workers", type=_positive_int, metavar="N",
@@ -53,10 +53,7 @@ def add_batch_options(parser) -> None:
                         help="run on an existing Dask cluster, e.g. tcp://10.0.0.5:8786 (needs dask.distributed)")
     parser.add_argument("--resume", action="store_true",
                         help="skip lines whose JSON, horizons CSV and PNG are complete and valid")
-    add_velocity_options(parser)
-    parser.add_argument("--no-uncertainty", action="store_true",
-                        help="skip the Monte-Carlo P10/P50/P90 of slope and relief")
-    parser.add_argument("--seed", type=int, default=0, help="seed of the random draws (default: %(default)s)")
+    add_analysis_options(parser)
     parser.add_argument("--no-plot", action="store_true", help="no QC, summary or map figures")
     parser.add_argument("--quiet", action="store_true", help="no progress bar")
 
@@ -68,27 +65,13 @@ def configure(parser) -> None:
                         help="inlines of 3D volumes to analyze (default: all)")
     parser.add_argument("--crosslines", metavar="all|A:B:STEP",
                         help="crosslines of 3D volumes to analyze (default: none)")
-    parser.add_argument("--thresholds", metavar="FILE.toml",
-                        help="TOML file overriding the classification thresholds")
     add_batch_options(parser)
 
 
 def batch_kwargs(args) -> dict:
-    """Keyword arguments of :func:`clinometry.batch.run_batch` from parsed options."""
-    return dict(
-        workers=args.workers,
-        scheduler=args.scheduler,
-        resume=args.resume,
-        velocity=getattr(args, "velocity", None),
-        velocity_linear=getattr(args, "velocity_linear", None),
-        velocity_file=getattr(args, "velocity_file", None),
-        velocity_kind=getattr(args, "velocity_kind", "interval") or "interval",
-        domain=getattr(args, "domain", None),
-        uncertainty=not args.no_uncertainty,
-        seed=args.seed,
-        plot=not args.no_plot,
-        quiet=args.quiet,
-    )
+    """How to run the batch (not how to analyse a line) from parsed options: keywords of run_batch."""
+    return dict(workers=args.workers, scheduler=args.scheduler, resume=args.resume, plot=not args.no_plot,
+                quiet=args.quiet)
 
 
 def report(summary) -> int:
@@ -112,7 +95,8 @@ def report(summary) -> int:
 def run(args) -> int:
     """Run ``clinometry batch``; exit code 0 all done, 1 some failed, 2 nothing ran."""
     from ..batch import run_batch
+    from ._options import analysis_options
 
-    summary = run_batch(args.paths, args.out, inlines=args.inlines, crosslines=args.crosslines,
-                        thresholds=args.thresholds, **batch_kwargs(args))
+    summary = run_batch(args.paths, args.out, analysis_options(args), inlines=args.inlines,
+                        crosslines=args.crosslines, **batch_kwargs(args))
     return report(summary)

@@ -22,6 +22,8 @@ from __future__ import annotations
 import logging
 from pathlib import Path
 
+from ..io.sniff import has_segy_suffix
+
 DESCRIPTION = "batch over the bundled synthetic lines and volume (the main job, end to end)"
 EXAMPLE = "clinometry demo --out demo/   # then open demo/index.html"
 
@@ -44,7 +46,7 @@ def configure(parser) -> None:
 
 
 def _has_segy(folder: Path) -> bool:
-    return folder.is_dir() and any(p.suffix.lower() in (".sgy", ".segy") for p in folder.iterdir())
+    return folder.is_dir() and any(has_segy_suffix(p) for p in folder.iterdir())
 
 
 def bundled_inputs():
@@ -53,9 +55,7 @@ def bundled_inputs():
     Looked for next to the package (installed as data) and at the root of a
     source checkout (the package's parent folder).
     """
-    import clinometry
-
-    pkg = Path(clinometry.__file__).resolve().parent
+    pkg = Path(__file__).resolve().parents[1]  # the clinometry package folder
     for cand in (pkg / BUNDLE_DIR, pkg.parent / BUNDLE_DIR):
         if _has_segy(cand):
             return cand
@@ -124,7 +124,7 @@ def truth_velocities(folder) -> dict:
 
     out = {}
     for seg in sorted(Path(folder).iterdir()):
-        if seg.suffix.lower() not in (".sgy", ".segy"):
+        if not has_segy_suffix(seg):
             continue
         truth = seg.with_name(seg.stem + ".truth.json")
         try:
@@ -154,13 +154,14 @@ def demo_inputs(out_dir, *, regenerate=False):
 def run(args) -> int:
     """Run ``clinometry demo``; exit codes as ``clinometry batch``."""
     from ..batch import run_batch
+    from ._options import analysis_options
     from .batch import batch_kwargs, report
 
+    options = analysis_options(args)  # checked before any input is generated
     inputs = demo_inputs(args.out, regenerate=args.regenerate)
     print(f"inputs: {inputs}")
-    kwargs = batch_kwargs(args)
-    given = any(kwargs.get(k) is not None for k in ("velocity", "velocity_linear", "velocity_file"))
+    given = any(v is not None for v in (options.velocity, options.velocity_linear, options.velocity_file))
     file_velocity = {} if given else truth_velocities(inputs)
-    summary = run_batch([str(inputs)], args.out, inlines="all", title="clinometry demo: synthetic margins",
-                        file_velocity=file_velocity, **kwargs)
+    summary = run_batch([str(inputs)], args.out, options, inlines="all", title="clinometry demo: synthetic margins",
+                        file_velocity=file_velocity, **batch_kwargs(args))
     return report(summary)

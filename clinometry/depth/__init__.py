@@ -15,14 +15,14 @@ identity conversion.
    regulations.
 """
 
-from ._checks import PLAUSIBLE_VELOCITY_M_S
-from .convert import horizon_to_depth, horizon_to_twt, section_to_depth, section_to_twt
+from ._plausibility import PLAUSIBLE_VELOCITY_M_S
+from .convert import horizon_to_depth, horizon_to_twt, section_to_depth, section_to_twt, to_depth
 from .dip import dip_deg_from_depth, time_dip_ms_per_m, true_dip_deg
 from .dix import interval_to_rms, rms_to_interval
 from .models import DEFAULT_VELOCITY_M_S, DEFAULT_VELOCITY_NOTE, ConstantVelocity, LinearVelocity, VelocityModel
-from .options import VELOCITY_KINDS, is_segy_file, read_velocity_table, velocity_from_dict, velocity_from_options
+from .model_from_options import VELOCITY_KINDS, is_segy_file, velocity_from_dict, velocity_from_options
 from .section_velocity import SectionVelocity
-from .table import TableVelocity
+from .table import TableVelocity, read_velocity_table
 
 __all__ = [
     "DEFAULT_VELOCITY_M_S",
@@ -42,6 +42,7 @@ __all__ = [
     "section_to_twt",
     "horizon_to_depth",
     "horizon_to_twt",
+    "to_depth",
     "true_dip_deg",
     "time_dip_ms_per_m",
     "dip_deg_from_depth",

@@ -24,12 +24,12 @@ import xarray as xr
 
 from ..errors import GeometryError, VelocityError
 from ..section import Z_UNITS, check_section, section_name
-from ._checks import MS_PER_S
-from .models import VelocityModel
+from ._plausibility import MS_PER_S
+from .models import ConstantVelocity, VelocityModel
 
 logger = logging.getLogger(__name__)
 
-__all__ = ["section_to_depth", "section_to_twt", "horizon_to_depth", "horizon_to_twt"]
+__all__ = ["section_to_depth", "section_to_twt", "horizon_to_depth", "horizon_to_twt", "to_depth"]
 
 _Z_ATTRS = {
     "twt": {"units": Z_UNITS["twt"], "long_name": "two-way time"},
@@ -273,6 +273,53 @@ def horizon_to_depth(section, trace, z, velocity):
         return zz.copy()
     _need_velocity(section, velocity, "depth")
     return velocity.depth_m(zz, trace=tr)
+
+
+def to_depth(section, trace, z, velocity) -> np.ndarray:
+    """Depth in m of points given as trace index and z in the section's units: the one helper for picks.
+
+    :func:`horizon_to_depth` as every step uses it on picks (picking, the
+    metrics, the horizons table): float64 out, and a number is taken as a
+    constant velocity.
+
+    Parameters
+    ----------
+    section : xarray.DataArray, dims ("trace", "z")
+    trace : array_like of int, shape (n,)
+        Section trace indices (0-based).
+    z : array_like of float, shape (n,)
+        ms TWT or m, in the section's domain; NaN stays NaN.
+    velocity : VelocityModel, float (m/s) or None
+        None only for depth sections (identity).  Nothing is assumed: a TWT
+        section without a velocity is refused; pass
+        :data:`~clinometry.depth.DEFAULT_VELOCITY_M_S` to use the package
+        default on purpose.
+
+    Returns
+    -------
+    numpy.ndarray of float64, shape (n,), m
+
+    Raises
+    ------
+    VelocityError
+        TWT section and no velocity.
+    GeometryError
+        A trace index outside the section.
+
+    See Also
+    --------
+    horizon_to_depth
+
+    Examples
+    --------
+    >>> from clinometry.section import make_section
+    >>> s = make_section(np.zeros((3, 5)), z=np.arange(5) * 4.0)
+    >>> to_depth(s, [0, 2], [4.0, 8.0], 2500.0).tolist()  # depth = v t / 2
+    [5.0, 10.0]
+    """
+    if isinstance(velocity, (int, float, np.number)) and not isinstance(velocity, (bool, np.bool_)):
+        velocity = ConstantVelocity(float(velocity))
+    return np.asarray(horizon_to_depth(section, trace, z, velocity), dtype=np.float64)
 
 
 def horizon_to_twt(section, trace, z, velocity):

@@ -17,7 +17,7 @@ from __future__ import annotations
 import numpy as np
 
 from ..errors import GeometryError
-from ._checks import MS_PER_S, check_velocities
+from ._plausibility import MS_PER_S, check_velocities
 
 __all__ = ["true_dip_deg", "time_dip_ms_per_m", "dip_deg_from_depth"]
 

@@ -30,7 +30,7 @@ from __future__ import annotations
 import numpy as np
 
 from ..errors import VelocityError
-from ._checks import check_velocities
+from ._plausibility import check_velocities
 
 __all__ = ["interval_to_rms", "rms_to_interval", "check_table_times"]
 

@@ -45,7 +45,7 @@ import logging
 import numpy as np
 
 from ..errors import VelocityError
-from ._checks import MAX_GRADIENT_PER_S, MS_PER_S, PLAUSIBLE_VELOCITY_M_S, broadcast_trace, check_velocities
+from ._plausibility import MAX_GRADIENT_PER_S, MS_PER_S, PLAUSIBLE_VELOCITY_M_S, broadcast_trace, check_velocities
 
 logger = logging.getLogger(__name__)
 

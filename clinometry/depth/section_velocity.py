@@ -28,7 +28,7 @@ import numpy as np
 
 from ..errors import GeometryError, VelocityError
 from ..section import section_name
-from ._checks import MS_PER_S, check_velocities
+from ._plausibility import MS_PER_S, check_velocities
 from .dix import rms_to_interval
 from ._matching import LATERAL_MODES, lines_to_read, match_traces
 from .models import VelocityModel

@@ -5,18 +5,28 @@ function from a stacking-velocity analysis (RMS) or from a well (interval).
 Interval velocity is taken as constant between table times, so depth is
 piecewise linear in time and converting back is exact.  RMS tables go
 through the Dix (1955) equation first (:mod:`clinometry.depth.dix`).
+:func:`read_velocity_table` reads such a table from a text or CSV file.
 """
 
 from __future__ import annotations
 
+import logging
+import os
+import re
+
 import numpy as np
 
 from ..errors import VelocityError
-from ._checks import MIN_TABLE_SPAN_MS, MS_PER_S, check_velocities
+from ._plausibility import MIN_TABLE_SPAN_MS, MS_PER_S, check_velocities
 from .dix import check_table_times, interval_to_rms, rms_to_interval
 from .models import VelocityModel
 
-__all__ = ["TableVelocity"]
+__all__ = ["TableVelocity", "read_velocity_table"]
+
+logger = logging.getLogger(__name__)
+
+#: separators between the columns of a velocity table
+_SPLIT = re.compile(r"[,;\s]+")
 
 
 class TableVelocity(VelocityModel):
@@ -136,3 +146,63 @@ class TableVelocity(VelocityModel):
             f"{self.table_twt_ms[0]:g}-{self.table_twt_ms[-1]:g} ms, "
             f"interval {self.v_int_m_s.min():g}-{self.v_int_m_s.max():g} m/s"
         )
+
+
+def read_velocity_table(path, *, kind: str = "interval") -> TableVelocity:
+    """Read a two-column text/CSV table of two-way time (ms) and velocity (m/s).
+
+    Parameters
+    ----------
+    path : str or os.PathLike
+        Text file; columns separated by commas, semicolons, tabs or spaces;
+        ``#`` starts a comment; one header line of column names is allowed.
+    kind : {"interval", "rms"}
+
+    Returns
+    -------
+    TableVelocity
+
+    Raises
+    ------
+    VelocityError
+        No rows, a row without exactly two numbers (the message names file
+        and line), or any check of :class:`TableVelocity`.
+    OSError
+        The file cannot be opened.
+
+    Examples
+    --------
+    >>> import tempfile, pathlib
+    >>> with tempfile.TemporaryDirectory() as folder:
+    ...     p = pathlib.Path(folder) / "v.csv"
+    ...     _ = p.write_text("twt_ms,velocity_m_s\\n0,1800\\n1000,2600\\n")
+    ...     print(read_velocity_table(p).describe())
+    interval velocity table from v.csv: 2 rows, 0-1000 ms, interval 1800-2600 m/s
+    """
+    fname = os.path.basename(os.fspath(path))
+    times, vels = [], []
+    with open(path, encoding="utf-8", errors="replace") as fh:
+        for lineno, raw in enumerate(fh, start=1):
+            line = raw.split("#", 1)[0].strip()
+            if not line:
+                continue
+            cols = [c for c in _SPLIT.split(line) if c]
+            try:
+                vals = [float(c) for c in cols]
+            except ValueError as err:
+                if not times and all(re.match(r"^[A-Za-z_]", c) for c in cols):
+                    continue  # a header line of column names
+                raise VelocityError(
+                    f"{fname} line {lineno}: {line!r} is not two numbers (two-way time in ms, velocity in m/s)"
+                ) from err
+            if len(vals) != 2:
+                raise VelocityError(
+                    f"{fname} line {lineno}: expected 2 columns (two-way time ms, velocity m/s), found {len(vals)}"
+                )
+            times.append(vals[0])
+            vels.append(vals[1])
+    if not times:
+        raise VelocityError(f"{fname}: no velocity rows found; expected lines of 'twt_ms, velocity_m_s'")
+    model = TableVelocity(times, vels, kind, source=fname)
+    logger.info("velocity: %s", model.describe())
+    return model

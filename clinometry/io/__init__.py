@@ -7,8 +7,8 @@ samples.  Headers are checked against the file size before anything is
 allocated (:mod:`clinometry.io.sniff`); samples are decoded by segyio.
 """
 
-from .geometry import MIN_GRID_FILL, is_3d, line_numbers
-from .inspect import inspect_file
+from .survey_geometry import MIN_GRID_FILL, is_3d, line_numbers
+from .file_summary import inspect_file
 from .segy import (
     DEFAULT_TRACE_SPACING_M,
     MAX_SAMPLE_INTERVAL,
@@ -17,7 +17,7 @@ from .segy import (
     read_section,
     sample_interval_from_headers,
 )
-from .sniff import SegyLayout, decode_text_header, sniff_segy
+from .sniff import SEGY_SUFFIXES, SegyLayout, decode_text_header, has_segy_suffix, sniff_segy
 
 __all__ = [
     "read_section",
@@ -26,6 +26,8 @@ __all__ = [
     "is_3d",
     "line_numbers",
     "sniff_segy",
+    "SEGY_SUFFIXES",
+    "has_segy_suffix",
     "SegyLayout",
     "decode_text_header",
     "sample_interval_from_headers",

@@ -17,7 +17,7 @@ Method
    are recomputed with the IBM formula [3]_ and counted in ``attrs["notes"]``.
    All other samples are segyio's.
 4. 3D geometry is worked out from the inline/crossline header fields
-   (default bytes 189/193; see :mod:`clinometry.io.geometry` for the rule).
+   (default bytes 189/193; see :mod:`clinometry.io.survey_geometry` for the rule).
    Missing traces are allowed (the line just has gaps).  Lines are read one
    at a time, so the cube is never loaded: the extra memory of a line read is
    the line itself plus a few bytes of header per trace of the file.
@@ -51,7 +51,7 @@ import numpy as np
 
 from ..errors import DataQualityWarning, FallbackWarning, GeometryError, SegyReadError
 from ..section import DOMAINS, Z_UNITS, distance_from_xy, make_section
-from .geometry import TraceHeaders, check_header_bytes, line_indices, survey_geometry
+from .survey_geometry import TraceHeaders, check_header_bytes, line_indices, survey_geometry
 from .headers import TRACE_HEADER, apply_scalar
 from .sniff import SegyLayout, sniff_segy
 

@@ -39,9 +39,14 @@ from .headers import (
     TRACE_HEADER_BYTES,
 )
 
-__all__ = ["SegyLayout", "sniff_segy", "decode_text_header"]
+__all__ = ["SEGY_SUFFIXES", "has_segy_suffix", "SegyLayout", "sniff_segy", "decode_text_header"]
 
 logger = logging.getLogger(__name__)
+
+#: file-name endings of SEG-Y files, lower case: the one list the package
+#: uses (folders in a batch, the demo inputs, velocity files); other names
+#: are told by content where it matters (common practice, no source)
+SEGY_SUFFIXES = (".sgy", ".segy")
 
 FILE_HEADER_BYTES = TEXT_HEADER_BYTES + BINARY_HEADER_BYTES
 #: SEG-Y rev 2.0 byte-order marker as written by the writer [2]_
@@ -55,6 +60,17 @@ UNSUPPORTED_FORMATS = {4: "4-byte fixed point with gain is obsolete and has no d
 _CHECK_HINT = ("; check that the copy is complete, and the sample count (bytes 3221-3222) and "
                "format (3225-3226) in the binary header")
 _STRUCT = {("big", 2): ">h", ("little", 2): "<h", ("big", 4): ">i", ("little", 4): "<i"}
+
+
+def has_segy_suffix(path) -> bool:
+    """True when the file name ends in one of :data:`SEGY_SUFFIXES` (any case).
+
+    Examples
+    --------
+    >>> has_segy_suffix("line_07.SGY"), has_segy_suffix("v.csv")
+    (True, False)
+    """
+    return os.fspath(path).lower().endswith(SEGY_SUFFIXES)
 
 
 @dataclass(frozen=True)

@@ -1,7 +1,7 @@
 """Foreset slope, relief, flank gradients and curvature of a margin profile.
 
 All numbers are measured on the depth-converted, basinward-oriented profile
-of :mod:`clinometry.metrics.geometry`, so angles are true angles in degrees
+of :mod:`clinometry.metrics.margin_geometry`, so angles are true angles in degrees
 and lengths are metres.  The definitions (also in the README section "How
 the numbers are defined"):
 
@@ -12,28 +12,32 @@ foreset_width_m
 slope_mean_deg
     ``atan(relief_m / foreset_width_m)``: the mean declivity of the foreset.
 slope_max_deg
-    The steepest *secant* slope over a horizontal base ``L`` lying wholly
-    between break and toe: ``max over x of atan((d(x + L) - d(x)) / L)``.
-    One definition, used by the metrics on the picked surface and by the
-    forward model's ground truth (:mod:`clinometry.synth.truth`) on the exact
-    surface, with the same base (:func:`slope_base_length_m`)::
+    The maximum foreset slope between break and toe: the 80th percentile
+    (:data:`~clinometry.definitions.SLOPE_MAX_QUANTILE`) of the dips of
+    least-squares lines fitted to the profile over every horizontal base
+    ``L`` lying wholly between break and toe, with
+    (:func:`clinometry.definitions.slope_base_length_m`)::
 
-        L = max(SLOPE_BASE_MIN_M, BASE_LENGTH_TRACES * trace spacing,
-                depth sample / (SLOPE_PRECISION_FRACTION * tan(slope_mean)))
+        L = max(BASE_LENGTH_TRACES * trace spacing,
+                (sigma sqrt(12 dx) / (SLOPE_PRECISION_FRACTION tan(slope_mean))) ** (2/3))
 
-    i.e. at least 150 m (about one to two dominant wavelengths of usual
-    seismic, so the slope is that of the imaged foreset and not of the
-    wavelet's lateral smear or of pick jitter), at least 4 traces, and long
-    enough that one depth sample of vertical pick error changes the slope by
-    at most a tenth of the mean foreset gradient -- ~150 m for a 20 deg
-    foreset and ~1.8 km for a 0.8 deg ramp at 2.5 m depth samples.  This is
-    what an interpreter reads as "the maximum foreset slope": the steepest
-    stretch of the foreset over a distance well above the pick noise.  A
-    margin narrower than ``L`` is measured by its break-to-toe secant
-    (max = mean).  When break or toe is missing, the window runs to the end
-    of the profile and ``slope_window`` says so: the steepest part of a
-    margin is a real measurement even where the break is not sharp enough to
-    pick (ramps).
+    i.e. at least three traces, and long enough that the pick scatter
+    ``sigma`` (measured on the picks, at least the quantisation of one depth
+    sample) changes the fitted dip by at most a tenth of the mean foreset
+    gradient: ~75 m on a clean 20 deg foreset at 25 m traces, a few hundred
+    metres on a noisy one or on a ramp.  One definition, used by the metrics
+    on the picked surface and by the forward model's ground truth
+    (:mod:`clinometry.synth.truth`) on the exact surface
+    (:func:`clinometry.definitions.foreset_slope_deg`).  This is what an
+    interpreter reads as "the maximum foreset slope": the dip of the steep,
+    straight part of the foreset, not of single-trace wiggles of the picks.
+    A margin narrower than ``L`` is measured by the least-squares line from
+    break to toe.  When break or toe is missing (a ramp), the window runs to
+    the end of the profile and ``slope_window`` says so.
+
+    .. versionchanged:: 2026-12
+       Was the steepest secant over at least 150 m, which flattened narrow
+       steep faces and read pick jitter as slope.
 topset_gradient_deg, bottomset_gradient_deg
     Least-squares gradient of depth against basinward distance over
     ``flank_length_m`` landward of the break (platform top) and basinward of
@@ -48,56 +52,33 @@ break_curvature_per_km, toe_curvature_per_km
 clinoform_height_m
     Median over the clinoforms of toe depth minus break depth.
 
-Secant slopes rather than point derivatives are used because picks are
-quantised to one sample vertically and one trace laterally; a secant over a
-stated base is the usual way to report a slope from quantised elevations
-(common practice, no source).  Published carbonate slope declivities
-(e.g. Kenter 1990, Sedimentology 37: 777-794; Adams & Schlager 2000, J. Sed.
-Res. 70: 814-828) are read off profiles over hundreds of metres, not per
-trace (from memory); the 150 m floor keeps ours comparable with those.
+Fitted dips rather than point derivatives are used because picks are
+quantised to one sample vertically and one trace laterally and carry pick
+noise; a fit over a stated base is the usual way to report a slope from
+such elevations (common practice, no source).
 """
 
 from __future__ import annotations
 
 import logging
-import warnings
 
 import numpy as np
 
+from ..definitions import (BASE_LENGTH_TRACES, SLOPE_QUANTUM_DEG, _interp_rows, foreset_slope_deg, pick_scatter_m,
+                           slope_base_length_m)
+
 __all__ = [
-    "BASE_LENGTH_TRACES",
-    "SLOPE_PRECISION_FRACTION",
-    "SLOPE_MAX_QUANTILE",
-    "SLOPE_QUANTUM_DEG",
     "FLANK_LENGTH_TRACES",
     "CURVATURE_WINDOW_BASES",
     "slope_metrics",
     "grid_surface",
-    "secant_slope_max_deg",
-    "fitted_slope_max_deg",
-    "pick_scatter_m",
-    "slope_base_length_m",
+    "foreset_slope_deg",
     "base_length_m_for",
     "local_length_m",
 ]
 
 logger = logging.getLogger(__name__)
 
-#: shortest base of the maximum-slope fit, in trace spacings: three traces,
-#: the fewest that give a fitted dip rather than a two-point difference
-#: (common practice, no source)
-BASE_LENGTH_TRACES = 3
-#: the pick scatter changes the fitted slope by at most this fraction of the
-#: mean foreset gradient (chosen here; common practice, no source: a shorter
-#: base reports pick wiggles as slope)
-SLOPE_PRECISION_FRACTION = 0.1
-#: the maximum foreset slope is this quantile of the fitted dips along the
-#: foreset: its steepest fifth (our choice, no source; see
-#: :func:`fitted_slope_max_deg`)
-SLOPE_MAX_QUANTILE = 0.8
-#: without a mean slope: one depth sample over the base is this slope, degrees
-#: (chosen here)
-SLOPE_QUANTUM_DEG = 1.0
 #: length of the topset / bottomset gradient fit, in trace spacings (chosen here)
 FLANK_LENGTH_TRACES = 20
 #: half-width of the curvature fit window, in local lengths (chosen here)
@@ -120,8 +101,9 @@ def _mean_gradient(surface):
 def local_length_m(geometry) -> float:
     """Length scale of the local fits next to break and toe, m.
 
-    The longer of :data:`BASE_LENGTH_TRACES` trace spacings and the length
-    over which one depth sample is a slope of :data:`SLOPE_QUANTUM_DEG`.
+    The longer of :data:`~clinometry.definitions.BASE_LENGTH_TRACES` trace
+    spacings and the length over which one depth sample is a slope of
+    :data:`~clinometry.definitions.SLOPE_QUANTUM_DEG`.
     Used to keep the rollover out of the flank fits and as the unit of the
     curvature window; independent of the slope itself.
     """
@@ -129,89 +111,11 @@ def local_length_m(geometry) -> float:
     return float(max(BASE_LENGTH_TRACES * geometry.trace_spacing_m, vertical))
 
 
-def slope_base_length_m(trace_spacing_m: float, depth_sample_m: float, mean_gradient=None, *,
-                        pick_scatter_m: float = 0.0) -> float:
-    """The base of the max-slope fit, m: the one definition shared with the ground truth.
-
-    ``max(BASE_LENGTH_TRACES * trace_spacing_m, L_noise)``, where ``L_noise`` is
-    the shortest base over which a least-squares line through picks one
-    trace apart, each with a depth error ``sigma``, has a slope error of at
-    most :data:`SLOPE_PRECISION_FRACTION` of the mean gradient ``g``:
-    ``sigma_slope = sigma sqrt(12 / N) / L`` with ``N = L / dx`` points
-    (the standard error of a least-squares slope on evenly spaced points,
-    e.g. Press et al. 2007, from memory), so
-    ``L_noise = (sigma sqrt(12 dx) / (f g)) ** (2/3)``.  ``sigma`` is the
-    larger of the quantisation error of one depth sample (``dz / sqrt(12)``)
-    and the measured pick scatter.  Without a mean gradient (break or toe
-    missing) ``g`` is ``tan(SLOPE_QUANTUM_DEG)``.
-
-    Parameters
-    ----------
-    trace_spacing_m : float, m
-    depth_sample_m : float, m
-        One sample of the section converted to depth at the shelf break.
-    mean_gradient : float, optional
-        tan of the break-to-toe mean slope (> 0).
-    pick_scatter_m : float, m
-        Scatter of the picks about a smooth profile (0 for an exact surface).
-
-    Returns
-    -------
-    float, m
-
-    References
-    ----------
-    .. [1] Press, W. H., Teukolsky, S. A., Vetterling, W. T. & Flannery, B. P.
-       (2007). Numerical Recipes, 3rd ed., section 15.2 (straight-line fit).
-       (from memory)
-
-    Examples
-    --------
-    >>> round(slope_base_length_m(25.0, 2.5, np.tan(np.radians(20.0))), 1)
-    75.0
-    >>> round(slope_base_length_m(12.5, 2.5, np.tan(np.radians(0.8))), 0)
-    342.0
-    """
-    g = mean_gradient if mean_gradient is not None and mean_gradient > 0 else np.tan(np.radians(SLOPE_QUANTUM_DEG))
-    sigma = max(float(depth_sample_m) / np.sqrt(12.0), float(pick_scatter_m or 0.0))
-    noise = (sigma * np.sqrt(12.0 * trace_spacing_m) / (SLOPE_PRECISION_FRACTION * g)) ** (2.0 / 3.0)
-    return float(max(BASE_LENGTH_TRACES * trace_spacing_m, noise))
-
-
-def pick_scatter_m(surface, lo_m=None, hi_m=None) -> float:
-    """Robust scatter (m) of a surface's picks about a smooth profile between two positions.
-
-    ``1.4826 * median(|second difference|) / sqrt(6)``: the second difference
-    of independent errors of scatter ``sigma`` has variance ``6 sigma^2``, and
-    1.4826 MAD is the normal-consistent robust sigma (Rousseeuw & Croux
-    1993, from memory).  A smooth profile has second differences far below
-    its pick scatter.
-
-    Examples
-    --------
-    >>> from types import SimpleNamespace
-    >>> s = SimpleNamespace(basinward_m=np.arange(5.0), depth_m=np.zeros(5))
-    >>> pick_scatter_m(s)
-    0.0
-    """
-    b, d = np.asarray(surface.basinward_m, float), np.asarray(surface.depth_m, float)
-    keep = np.ones(b.size, bool)
-    if lo_m is not None:
-        keep &= b >= lo_m - 1e-9
-    if hi_m is not None:
-        keep &= b <= hi_m + 1e-9
-    d = d[keep]
-    if d.size < 5:
-        return 0.0
-    return float(1.4826 * np.median(np.abs(np.diff(d, 2))) / np.sqrt(6.0))
-
-
 def base_length_m_for(geometry, base_length_m=None, *, surface=None) -> float:
-    """The base length of the max-slope fit of a margin geometry, m.
+    """The base length of the max-slope secant of a margin geometry, m.
 
-    Given, or :func:`slope_base_length_m` with the geometry's trace spacing,
-    depth sample, the surface's mean break-to-toe gradient and the scatter
-    of its picks between break and toe.
+    Given, or :func:`clinometry.definitions.slope_base_length_m` with the geometry's trace spacing,
+    depth sample and the surface's mean break-to-toe gradient.
 
     Parameters
     ----------
@@ -231,10 +135,13 @@ def base_length_m_for(geometry, base_length_m=None, *, surface=None) -> float:
         return float(base_length_m)
     surf = surface if surface is not None else geometry.profile
     g = _mean_gradient(surf)
-    lo = surf.shelf_break["basinward_m"] if surf.shelf_break else None
-    hi = surf.toe["basinward_m"] if surf.toe else None
+    keep = np.ones(len(surf), bool)
+    if surf.shelf_break:
+        keep &= surf.basinward_m >= surf.shelf_break["basinward_m"] - 1e-9
+    if surf.toe:
+        keep &= surf.basinward_m <= surf.toe["basinward_m"] + 1e-9
     return slope_base_length_m(geometry.trace_spacing_m, geometry.depth_sample_m, g,
-                               pick_scatter_m=pick_scatter_m(surf, lo, hi))
+                               pick_scatter_m=pick_scatter_m(surf.depth_m[keep]))
 
 
 def grid_surface(surface, step_m: float):
@@ -265,160 +172,6 @@ def grid_surface(surface, step_m: float):
     xs = b0 + step_m * np.arange(n)
     ds = np.interp(xs, surface.basinward_m, surface.depth_m)
     return xs, ds
-
-
-def _interp_rows(x0, step, ds, pos):
-    """Row-wise linear interpolation on a uniform grid: ds (..., n), pos (...)."""
-    n = ds.shape[-1]
-    f = np.clip((np.asarray(pos, dtype=float) - x0) / step, 0.0, n - 1.0)
-    i = np.minimum(np.floor(f).astype(np.int64), n - 2) if n > 1 else np.zeros(np.shape(f), np.int64)
-    w = f - i
-    lo = np.take_along_axis(ds, i[..., None], axis=-1)[..., 0]
-    hi = np.take_along_axis(ds, np.minimum(i + 1, n - 1)[..., None], axis=-1)[..., 0]
-    return lo * (1 - w) + hi * w
-
-
-def secant_slope_max_deg(xs, ds, lo_m, hi_m, base_m):
-    """Steepest secant slope over a base length within ``[lo_m, hi_m]``.
-
-    Vectorised over leading dimensions (Monte-Carlo draws).
-
-    Parameters
-    ----------
-    xs : numpy.ndarray, shape (n,), m
-        Uniform basinward grid.
-    ds : numpy.ndarray, shape (..., n), m
-        Depth on that grid (positive down).
-    lo_m, hi_m : float or numpy.ndarray, shape (...), m
-        Window (break and toe positions).
-    base_m : float, m
-        Base length; rounded to a whole number of grid steps (at least 1).
-
-    Returns
-    -------
-    numpy.ndarray, shape (...), degrees
-        Positive when deepening basinward.  Where the window is shorter than
-        one base, the secant from ``lo_m`` to ``hi_m``; NaN where
-        ``hi_m <= lo_m``.
-
-    Examples
-    --------
-    >>> xs = np.arange(0.0, 1001.0, 10.0)
-    >>> ds = np.where(xs < 500, 0.0, (xs - 500) * np.tan(np.radians(10)))
-    >>> round(float(secant_slope_max_deg(xs, ds, 0.0, 1000.0, 40.0)), 6)
-    10.0
-    """
-    xs = np.asarray(xs, dtype=float)
-    ds = np.asarray(ds, dtype=float)
-    lo = np.asarray(lo_m, dtype=float)
-    hi = np.asarray(hi_m, dtype=float)
-    step = float(xs[1] - xs[0]) if xs.size > 1 else 1.0
-    k = max(1, int(round(base_m / step)))
-    eps = 1e-6 * step
-    if xs.size > k:
-        s = (ds[..., k:] - ds[..., :-k]) / (k * step)
-        ok = (xs[:-k] >= lo[..., None] - eps) & (xs[k:] <= hi[..., None] + eps)
-        best = np.max(np.where(ok, s, -np.inf), axis=-1)
-    else:
-        best = np.full(np.broadcast_shapes(ds.shape[:-1], lo.shape, hi.shape), -np.inf)
-    # window shorter than one base: the break-to-toe secant
-    d_lo = _interp_rows(xs[0], step, ds, np.broadcast_to(lo, ds.shape[:-1]))
-    d_hi = _interp_rows(xs[0], step, ds, np.broadcast_to(hi, ds.shape[:-1]))
-    with np.errstate(divide="ignore", invalid="ignore"):
-        chord = (d_hi - d_lo) / (hi - lo)
-    best = np.where(np.isfinite(best), best, chord)
-    best = np.where(hi > lo, best, np.nan)
-    return np.degrees(np.arctan(best))
-
-
-def fitted_slope_max_deg(xs, ds, lo_m, hi_m, base_m, *, quantile: float = None):
-    """Maximum foreset slope: the steep end of the least-squares dips over a base length within ``[lo_m, hi_m]``.
-
-    A straight line is fitted (least squares) to the profile over every
-    window of ``base_m`` lying wholly inside ``[lo_m, hi_m]``; the
-    :data:`SLOPE_MAX_QUANTILE` quantile of the fitted dips is returned (the
-    steepest fifth of the foreset).  Fitting all points of the base, rather
-    than taking the difference of its two ends, keeps pick scatter from
-    reading as slope; a high quantile rather than the maximum, because the
-    maximum of N noisy dips exceeds the true one by about
-    ``sigma sqrt(2 ln N)`` (the expected maximum of N normal deviates, e.g.
-    David & Nagaraja 2003, from memory), while along the straight part of a
-    foreset, where the slope is steepest and nearly constant (Adams &
-    Schlager 2000), the quantile and the maximum agree.  Vectorised over
-    leading dimensions (Monte-Carlo draws).
-
-    Parameters
-    ----------
-    xs : numpy.ndarray, shape (n,), m
-        Uniform basinward grid.
-    ds : numpy.ndarray, shape (..., n), m
-        Depth on that grid (positive down).
-    lo_m, hi_m : float or numpy.ndarray, shape (...), m
-        Window (break and toe positions).
-    base_m : float, m
-        Base length; rounded to a whole number of grid steps (at least 2).
-
-    Returns
-    -------
-    numpy.ndarray, shape (...), degrees
-        Positive when deepening basinward.  Where the window is shorter than
-        one base, the least-squares slope over the whole window; NaN where
-        ``hi_m <= lo_m``.
-
-    Examples
-    --------
-    >>> xs = np.arange(0.0, 1001.0, 10.0)
-    >>> ds = np.where(xs < 500, 0.0, (xs - 500) * np.tan(np.radians(10)))
-    >>> round(float(fitted_slope_max_deg(xs, ds, 0.0, 1000.0, 40.0)), 6)
-    10.0
-    """
-    xs = np.asarray(xs, dtype=float)
-    ds = np.asarray(ds, dtype=float)
-    lo = np.asarray(lo_m, dtype=float)
-    hi = np.asarray(hi_m, dtype=float)
-    step = float(xs[1] - xs[0]) if xs.size > 1 else 1.0
-    k = max(2, int(round(base_m / step)))
-    eps = 1e-6 * step
-    shape = np.broadcast_shapes(ds.shape[:-1], lo.shape, hi.shape)
-    best = np.full(shape, -np.inf)
-    n = xs.size
-    if n > k:
-        w = k + 1
-        idx = np.arange(n, dtype=float)
-        c0 = np.concatenate([np.zeros(ds.shape[:-1] + (1,)), np.cumsum(ds, axis=-1)], axis=-1)
-        c1 = np.concatenate([np.zeros(ds.shape[:-1] + (1,)), np.cumsum(ds * idx, axis=-1)], axis=-1)
-        s0 = c0[..., w:] - c0[..., :-w]
-        s1 = c1[..., w:] - c1[..., :-w]
-        start = idx[: n - k]
-        centre = start + 0.5 * k
-        sxx = step * w * (w * w - 1) / 12.0
-        slope = (s1 - centre * s0) / sxx
-        ok = (xs[: n - k] >= lo[..., None] - eps) & (xs[k:] <= hi[..., None] + eps)
-        q = SLOPE_MAX_QUANTILE if quantile is None else float(quantile)
-        vals = np.where(ok, slope, np.nan)
-        with warnings.catch_warnings():
-            warnings.simplefilter("ignore", RuntimeWarning)  # all-NaN rows: no window fits
-            best = np.nanquantile(vals, q, axis=-1) if vals.shape[-1] else np.full(shape, np.nan)
-        best = np.where(np.isfinite(best), best, -np.inf)
-    # window shorter than one base: the least-squares slope over the window
-    short = ~np.isfinite(best)
-    if np.any(short):
-        inside = (xs >= np.broadcast_to(lo, shape)[..., None] - eps) & (xs <= np.broadcast_to(hi, shape)[..., None] + eps)
-        cnt = inside.sum(axis=-1)
-        dd = np.broadcast_to(ds, shape + (n,))
-        with np.errstate(invalid="ignore", divide="ignore"):
-            xm = np.where(cnt > 0, (inside * xs).sum(-1) / np.maximum(cnt, 1), 0.0)
-            dm = np.where(cnt > 0, (inside * dd).sum(-1) / np.maximum(cnt, 1), 0.0)
-            num = (inside * (xs - xm[..., None]) * (dd - dm[..., None])).sum(-1)
-            den = (inside * (xs - xm[..., None]) ** 2).sum(-1)
-            fit = np.where((cnt >= 2) & (den > 0), num / np.where(den > 0, den, 1.0), np.nan)
-            d_lo = _interp_rows(xs[0], step, dd, np.broadcast_to(lo, shape))
-            d_hi = _interp_rows(xs[0], step, dd, np.broadcast_to(hi, shape))
-            chord = (d_hi - d_lo) / (hi - lo)
-        fit = np.where(np.isfinite(fit), fit, chord)
-        best = np.where(short, fit, best)
-    best = np.where(np.broadcast_to(hi, shape) > np.broadcast_to(lo, shape), best, np.nan)
-    return np.degrees(np.arctan(best))
 
 
 def _gradient_deg(b, d):
@@ -459,7 +212,7 @@ def _foreset(geometry, surface, base_length_m, label):
         for k in ("slope_max_deg", "slope_mean_deg", "relief_m", "foreset_width_m"):
             missing[k] = reason
         return values, missing, window
-    smax = float(fitted_slope_max_deg(xs, ds, lo, hi, base_m))
+    smax = float(foreset_slope_deg(xs, ds, lo, hi, base_m))
     if np.isfinite(smax):
         values["slope_max_deg"] = smax
     else:
@@ -489,7 +242,7 @@ def slope_metrics(
     Parameters
     ----------
     geometry : MarginGeometry
-        From :func:`clinometry.metrics.geometry.margin_geometry`.
+        From :func:`clinometry.metrics.margin_geometry.margin_geometry`.
     base_length_m : float, m, optional
         Base of the maximum-slope secant; default from
         :func:`base_length_m_for`.

@@ -62,7 +62,7 @@ and otherwise ``ascending`` or ``descending`` by its sign: *flat* means that
 the breaks show no rise or fall that the picks can resolve (the P10-P90
 range of the angle includes zero), never a sign read off pick noise;
 ``sign_resolved`` and ``class_reason`` say which case applies.  The
-tolerance :data:`TRAJECTORY_FLAT_DEG` (0.1 deg, chosen here: about one depth
+tolerance :data:`~clinometry.definitions.TRAJECTORY_FLAT_DEG` (0.1 deg, chosen here: about one depth
 sample over 1.5 km of progradation) is part of the threshold table of
 :mod:`clinometry.classify.thresholds` and can be overridden there; the
 classes by sign follow Helland-Hansen & Martinsen (1996).
@@ -85,15 +85,12 @@ import logging
 
 import numpy as np
 
+from ..definitions import TRAJECTORY_FLAT_DEG, theil_sen_line
+
 __all__ = ["TRAJECTORY_FLAT_DEG", "P10_P90_SIGMAS", "trajectory_from_breaks", "trajectory_metrics"]
 
 logger = logging.getLogger(__name__)
 
-#: half-width of the "flat" trajectory band when the picks resolve better,
-#: degrees (chosen here: ~one 2.5 m depth sample over 1.5 km of progradation;
-#: classes by sign after Helland-Hansen & Martinsen 1996, J. Sed. Res. 66:
-#: 670-688, from memory)
-TRAJECTORY_FLAT_DEG = 0.1
 #: the 90th percentile of the standard normal distribution: P10/P90 are
 #: mean -/+ 1.2816 sigma (standard normal table, e.g. Abramowitz & Stegun
 #: 1964, table 26.1; from memory)
@@ -115,14 +112,6 @@ def _t90(dof):
     from scipy.stats import t
 
     return float(t.ppf(0.9, dof))
-
-
-def _theil_sen(x, y):
-    """Theil-Sen line: median of pairwise slopes and median intercept (Theil 1950; Sen 1968)."""
-    from scipy.stats import theilslopes
-
-    res = theilslopes(y, x)
-    return float(res[0]), float(res[1])
 
 
 def _angle(aggradation, progradation):
@@ -210,7 +199,7 @@ def trajectory_from_breaks(basinward_m, depth_m, *, flat_deg: float = TRAJECTORY
     if sxx > 0:
         # two breaks (sxx > 0 means prog != 0): the line through them
         if b.size > 2:
-            slope, icpt = _theil_sen(x, -d)
+            slope, icpt = theil_sen_line(x, -d)
         else:
             slope, icpt = aggr / abs(prog), 0.0
         angle = float(np.degrees(np.arctan(slope))) if b.size > 2 else net

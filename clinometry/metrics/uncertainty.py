@@ -42,7 +42,9 @@ import logging
 
 import numpy as np
 
-from .slope import _interp_rows, base_length_m_for, fitted_slope_max_deg, grid_surface
+from ..depth import to_depth
+from ..definitions import _interp_rows, foreset_slope_deg
+from .slope import base_length_m_for, grid_surface
 
 __all__ = ["UNCERTAINTY_DEFAULTS", "uncertainty_settings", "propagate"]
 
@@ -115,9 +117,7 @@ def _velocity_factors(rng, n, sigma):
 
 def _scales_linearly(section, velocity, surface, factor) -> bool:
     """Whether ``velocity.scaled(factor)`` multiplies the surface depths by ``factor``."""
-    from .geometry import to_depth
-
-    d = to_depth(section, velocity.scaled(factor), surface.trace, surface.z)
+    d = to_depth(section, surface.trace, surface.z, velocity.scaled(factor))
     return bool(np.allclose(d, factor * surface.depth_m, rtol=1e-6, atol=1e-6))
 
 
@@ -180,11 +180,9 @@ def propagate(geometry, *, settings: dict, section=None, velocity=None, base_len
     f = _velocity_factors(rng, n, sig_v) if sig_v > 0 else np.ones(n)
     per_draw_depth = None
     if sig_v > 0 and not _scales_linearly(section, velocity, prof, 1.0 + sig_v):
-        from .geometry import to_depth
-
         logger.debug("%s: velocity.scaled does not scale depth linearly; converting per draw", geometry.name)
         per_draw_depth = np.stack([
-            np.interp(xs, prof.basinward_m, to_depth(section, velocity.scaled(fi), prof.trace, prof.z)) for fi in f
+            np.interp(xs, prof.basinward_m, to_depth(section, prof.trace, prof.z, velocity.scaled(fi))) for fi in f
         ])
 
     # pick errors: position (traces) and depth (samples -> m) at break and toe
@@ -212,7 +210,7 @@ def propagate(geometry, *, settings: dict, section=None, velocity=None, base_len
     dd = base_depth + field
 
     out = {}
-    smax = fitted_slope_max_deg(xs, dd, b_pos, t_pos, base)
+    smax = foreset_slope_deg(xs, dd, b_pos, t_pos, base)
     out["slope_max_deg"] = _percentiles(smax)
     if brk is not None:
         d_brk = _interp_rows(xs[0], step, dd, b_pos) + f * b_off

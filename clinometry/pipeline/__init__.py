@@ -1,28 +1,25 @@
 """The pipeline: the one place where the steps are chained.
 
-:func:`analyze` runs read -> velocity model -> pick -> measure -> classify on
-one line and returns a :class:`~clinometry.result.Result`; :func:`measure`
-does the same for a horizon the interpreter picked already.  See
-:mod:`clinometry.pipeline.run` and :mod:`clinometry.pipeline.horizons`.
+:func:`run_analysis` runs read -> velocity model -> pick -> measure ->
+classify on one line with the choices of an :class:`AnalysisOptions` and
+returns the :class:`~clinometry.result.Result` with the section and velocity
+model (:class:`LineAnalysis`); :func:`analyze` is the front door (keywords
+in, Result out); :func:`measure_horizon` does the same for a horizon the
+interpreter picked already.  See :mod:`clinometry.pipeline.chain` and
+:mod:`clinometry.pipeline.analysis_options`.
 """
 
-from .horizons import (  # noqa: F401
-    HORIZON_MAX_OFFSET_TRACES,
-    USER_HORIZON_MIN_RELIEF_M,
-    USER_HORIZON_SMOOTHING_TRACES,
-    picks_from_horizon,
-    read_horizon_csv,
-)
-from .run import CAUTIONS, analyze, analyze_full, measure  # noqa: F401
+from .analysis_options import OPTION_NAMES, AnalysisOptions
+from .chain import CAUTIONS, LineAnalysis, analyze, check_choices, measure, measure_horizon, run_analysis
 
 __all__ = [
+    "AnalysisOptions",
+    "OPTION_NAMES",
+    "LineAnalysis",
+    "run_analysis",
     "analyze",
-    "analyze_full",
+    "measure_horizon",
     "measure",
-    "read_horizon_csv",
-    "picks_from_horizon",
+    "check_choices",
     "CAUTIONS",
-    "HORIZON_MAX_OFFSET_TRACES",
-    "USER_HORIZON_SMOOTHING_TRACES",
-    "USER_HORIZON_MIN_RELIEF_M",
 ]

@@ -21,7 +21,8 @@ from ..errors import GeometryError
 from .growth import GrowthParameters, grow
 from .lines import margins_truth
 from .seismic import SynthVelocity, bandlimited_noise, render, ricker
-from .truth import BASE_LENGTH_M, SMOOTHING_M, TRAJECTORY_FLAT_DEG
+from ..definitions import BASE_LENGTH_TRACES, SLOPE_MAX_QUANTILE
+from .truth import SMOOTHING_M, TRAJECTORY_FLAT_DEG
 from .write import _describe, _write_json, truth_path, write_segy
 
 __all__ = ["make_cube", "write_cube", "CUBE_GROWTH"]
@@ -144,7 +145,8 @@ def make_cube(*, n_inlines=40, inline_spacing_m=25.0, bend_m=600.0, growth=CUBE_
         "snr": None if snr is None else float(snr),
         "snr_definition": "RMS(noise-free cube) / RMS(noise)",
         "datum_depth_m": float(datum_depth_m),
-        "definitions": {"smoothing_m": SMOOTHING_M, "base_length_m": BASE_LENGTH_M,
+        "definitions": {"smoothing_m": SMOOTHING_M, "base_length_traces": BASE_LENGTH_TRACES,
+                        "slope_max_quantile": SLOPE_MAX_QUANTILE,
                         "trajectory_flat_tolerance_deg": TRAJECTORY_FLAT_DEG,
                         "distance_m": "along the inline from its first crossline",
                         "depth_m": "below the z origin (time zero), positive down"},

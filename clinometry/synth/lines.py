@@ -24,7 +24,8 @@ from ..section import make_section
 from .growth import grow
 from .scenarios import get_scenario
 from .seismic import SynthVelocity, bandlimited_noise, render, ricker
-from .truth import BASE_LENGTH_M, SMOOTHING_M, TRAJECTORY_FLAT_DEG, profile_margin, trajectory
+from ..definitions import BASE_LENGTH_TRACES, SLOPE_MAX_QUANTILE
+from .truth import SMOOTHING_M, TRAJECTORY_FLAT_DEG, profile_margin, trajectory
 
 __all__ = ["make_line", "grown_surfaces", "TRUTH_SCHEMA_VERSION", "line_geometry", "margins_truth"]
 
@@ -294,13 +295,14 @@ def make_line(scenario, *, snr=None, seed=0, peak_hz=None, velocity_m_s=None,
         "gain_drift_fraction": float(gain_drift_fraction),
         "dead_traces": dead,
         "datum_depth_m": float(sc.datum_depth_m),
-        "definitions": {"smoothing_m": SMOOTHING_M, "base_length_m": BASE_LENGTH_M,
+        "definitions": {"smoothing_m": SMOOTHING_M, "base_length_traces": BASE_LENGTH_TRACES,
+                        "slope_max_quantile": SLOPE_MAX_QUANTILE,
                         "trajectory_flat_tolerance_deg": TRAJECTORY_FLAT_DEG,
                         "break": "max convex-up curvature between platform top and steepest point",
                         "toe": "max concave-up curvature between steepest point and basin floor",
-                        "slope_max": ("steepest secant over a horizontal base wholly between break and toe, "
-                                      "base = max(base_length_m, 4 traces, one depth sample / "
-                                      "(0.1 tan(slope_mean))); as clinometry.metrics.slope"),
+                        "slope_max": ("80th percentile of least-squares dips over a horizontal base wholly "
+                                      "between break and toe, base = max(3 traces, the length over which one "
+                                      "depth sample changes the dip by a tenth); as clinometry.metrics.slope"),
                         "depth_m": "below the z origin (time zero), positive down"},
         "expected_family": sc.family,
         "expected_trajectory": sc.trajectory,

@@ -16,19 +16,19 @@ are taken.
 * **toe of slope**: maximum of concave-up curvature (most negative
   ``d''(s)``) between the steepest point and the basinward end;
 * ``relief_m`` = toe depth - break depth (unsmoothed profile);
-* ``slope_max_deg``: largest dip of the unsmoothed profile measured as a
-  secant over a horizontal base ``L`` lying wholly between break and toe
-  (the break-to-toe secant when they are closer than ``L``), with
-  ``L = max(BASE_LENGTH_M, BASE_LENGTH_TRACES * trace spacing,
-  depth sample / (SLOPE_PRECISION_FRACTION * tan(slope_mean)))`` -- the
-  same definition and constants as ``clinometry.metrics.slope`` uses on
-  picked surfaces (checked by ``tests/synth/test_truth.py``), so truth and
+* ``slope_max_deg``: the maximum foreset slope of the unsmoothed profile
+  by :func:`clinometry.definitions.foreset_slope_deg` (the 80th percentile
+  of least-squares dips over a base ``L`` between break and toe) with the
+  base of :func:`clinometry.definitions.slope_base_length_m` and no pick
+  scatter -- the one definition ``clinometry.metrics.slope`` uses on picked
+  surfaces (pinned by ``tests/test_definitions.py``), so truth and
   measurement differ only by the picks;
 * ``slope_mean_deg`` = atan(relief / horizontal break-to-toe distance);
 * shelf-break trajectory: Theil-Sen line (the median of the slopes
   between every pair of points; [3]_, [4]_) through the breaks of the
   clinoforms (oldest to youngest) in (basinward distance, depth), the same
-  estimator ``clinometry.metrics.trajectory`` fits to picked breaks;
+  estimator (:func:`clinometry.definitions.theil_sen_line`) that
+  ``clinometry.metrics.trajectory`` fits to picked breaks;
   ``angle_deg`` = atan(-d depth / d distance) (positive: the break rises as
   it moves basinward).  A least-squares line was used before; it let two
   backstepped early breaks of ``deep_factory_shelf`` turn a net rise of
@@ -59,12 +59,11 @@ from __future__ import annotations
 import numpy as np
 from scipy.ndimage import gaussian_filter1d
 
+# the definitions shared with clinometry.metrics (one home: clinometry.definitions)
+from ..definitions import TRAJECTORY_FLAT_DEG, foreset_slope_deg, slope_base_length_m, theil_sen_line
+
 __all__ = [
     "SMOOTHING_M",
-    "BASE_LENGTH_M",
-    "BASE_LENGTH_TRACES",
-    "SLOPE_PRECISION_FRACTION",
-    "slope_base_m",
     "TRAJECTORY_FLAT_DEG",
     "MIN_RELIEF_M",
     "profile_margin",
@@ -73,43 +72,11 @@ __all__ = [
 
 #: Gaussian smoothing (standard deviation) before curvature, m (project choice)
 SMOOTHING_M = 60.0
-#: shortest base of the secant used for slope_max_deg, m (project choice; the
-#: same value as clinometry.metrics.slope.SLOPE_BASE_MIN_M, see there)
-BASE_LENGTH_M = 150.0
-#: shortest base of that secant, in trace spacings (as clinometry.metrics.slope)
-BASE_LENGTH_TRACES = 4
-#: one depth sample over the base is at most this fraction of the mean
-#: foreset gradient (as clinometry.metrics.slope)
-SLOPE_PRECISION_FRACTION = 0.1
-#: trajectory angles within +/- this are "flat", degrees (project choice; the
-#: tolerance of the trajectory metric of clinometry.metrics, whose band also
-#: widens to the angle's pick uncertainty -- the truth's breaks are exact, so
-#: here the tolerance alone applies)
-TRAJECTORY_FLAT_DEG = 0.1
 #: a profile with less break-to-toe relief has no margin, m (project choice)
 MIN_RELIEF_M = 10.0
 
 
-def slope_base_m(trace_spacing_m, depth_sample_m, mean_gradient, *, min_base_m=BASE_LENGTH_M):
-    """Base of the max-slope secant, m (the definition of ``clinometry.metrics.slope``).
-
-    ``max(min_base_m, BASE_LENGTH_TRACES * trace_spacing_m,
-    depth_sample_m / (SLOPE_PRECISION_FRACTION * mean_gradient))``; the last
-    term is left out when ``depth_sample_m`` is None or the gradient is not
-    positive.
-
-    Examples
-    --------
-    >>> round(slope_base_m(12.5, 2.5, np.tan(np.radians(0.8))), 0)
-    1790.0
-    """
-    base = max(float(min_base_m), BASE_LENGTH_TRACES * float(trace_spacing_m))
-    if depth_sample_m is not None and mean_gradient > 0:
-        base = max(base, float(depth_sample_m) / (SLOPE_PRECISION_FRACTION * float(mean_gradient)))
-    return base
-
-
-def profile_margin(distance_m, depth_m, *, smoothing_m=SMOOTHING_M, base_length_m=BASE_LENGTH_M,
+def profile_margin(distance_m, depth_m, *, smoothing_m=SMOOTHING_M, base_length_m=None,
                    min_relief_m=MIN_RELIEF_M, trace_spacing_m=None, depth_sample_m=None):
     """Break, toe, slope and relief of one margin profile.
 
@@ -121,8 +88,10 @@ def profile_margin(distance_m, depth_m, *, smoothing_m=SMOOTHING_M, base_length_
         Depth of the surface, positive down.
     smoothing_m, min_relief_m : float, m
         See the module docstring.
-    base_length_m : float, m
-        Shortest base of the max-slope secant (see :func:`slope_base_m`).
+    base_length_m : float, m, optional
+        Base of the max-slope fit; default
+        :func:`clinometry.definitions.slope_base_length_m` (no pick scatter:
+        the surface is exact).
     trace_spacing_m : float, m, optional
         Trace spacing of the seismic line; default the profile's spacing.
     depth_sample_m : float or callable, m, optional
@@ -162,14 +131,9 @@ def profile_margin(distance_m, depth_m, *, smoothing_m=SMOOTHING_M, base_length_
         return None
     width = float(s[j] - s[i])
     dsample = depth_sample_m(float(d[i])) if callable(depth_sample_m) else depth_sample_m
-    base = slope_base_m(ds if trace_spacing_m is None else trace_spacing_m, dsample, relief / width,
-                        min_base_m=base_length_m)
-    n_base = max(1, int(round(base / ds)))
-    if j - i >= n_base:
-        sec = (d[i + n_base: j + 1] - d[i: j + 1 - n_base]) / (n_base * ds)
-        slope_max = float(np.degrees(np.arctan(sec.max())))
-    else:  # margin narrower than the base length: one secant break-to-toe
-        slope_max = float(np.degrees(np.arctan(relief / width)))
+    base = base_length_m if base_length_m is not None else slope_base_length_m(
+        ds if trace_spacing_m is None else trace_spacing_m, dsample, relief / width)
+    slope_max = float(foreset_slope_deg(s, d, s[i], s[j], base))
     slope_mean = float(np.degrees(np.arctan(relief / width)))
     return {"break": i, "toe": j, "steepest": k, "relief_m": relief,
             "slope_max_deg": slope_max, "slope_mean_deg": slope_mean, "slope_base_length_m": base}
@@ -201,9 +165,7 @@ def trajectory(distance_m, depth_m, *, flat_deg=TRAJECTORY_FLAT_DEG):
     d = np.asarray(depth_m, dtype=np.float64)
     if s.size < 3 or np.ptp(s) <= 0:
         return None
-    from scipy.stats import theilslopes  # Theil (1950), Sen (1968)
-
-    slope = float(theilslopes(d, s)[0])
+    slope, _ = theil_sen_line(s, d)  # Theil (1950), Sen (1968)
     angle = float(np.degrees(np.arctan(-slope)))
     cls = "ascending" if angle > flat_deg else "descending" if angle < -flat_deg else "flat"
     return {"angle_deg": angle, "class": cls, "flat_tolerance_deg": flat_deg,

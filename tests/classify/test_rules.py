@@ -6,7 +6,7 @@ import pytest
 from clinometry.classify import classify
 from clinometry.classify.rules import classify_rules
 from clinometry.errors import PluginError, ThresholdsError
-from clinometry.metrics.records import MarginMetrics
+from clinometry.metrics.metric_records import MarginMetrics
 
 RIMMED_GOOD = {"topset_gradient_deg": 0.02, "break_curvature_per_km": 0.4, "relief_m": 250.0}
 

@@ -93,9 +93,9 @@ def test_horizons_option_measures_the_given_horizon(synthetic_line_file, synthet
     path, truth = synthetic_line_file
     section, _ = synthetic_shelf
     # the interpreter's pick: the true final margin profile, sampled every 4th trace, in ms
-    from clinometry.pipeline import analyze_full
+    from clinometry import analyze
 
-    auto, sec, _ = analyze_full(section, velocity=2500.0, uncertainty=False)
+    auto = analyze(section, velocity=2500.0, uncertainty=False)
     prof = auto.picks.horizon(auto.picks.margins[0].profile_id)
     picks = tmp_path / "mine.csv"
     picks.write_text("trace,z\n" + "".join(f"{t},{float(z)!r}\n" for t, z in zip(prof.trace[::4], prof.z[::4])))
@@ -103,13 +103,13 @@ def test_horizons_option_measures_the_given_horizon(synthetic_line_file, synthet
                                    "--no-uncertainty", "--no-plot", "--out", str(tmp_path)])
     assert code == 0, err
     d = json.loads((tmp_path / "shelf_line.json").read_text())
-    assert d["run"]["horizon_source"] == str(picks) and d["run"]["picker"] == "user_horizon"
+    assert d["run"]["horizon_source"] == str(picks) and d["run"]["picker"] == "horizons"
     (m,) = d["margins"]
     assert m["direction"] == truth["margins"][0]["direction"] == "+"
     # the command line gives what the Python API gives for the same file and horizon
-    from clinometry import measure, read_section
+    from clinometry import measure_horizon, read_section
 
-    api = measure(picks, read_section(path), velocity=2500.0, uncertainty=False).to_dict()
+    api = measure_horizon(picks, read_section(path), velocity=2500.0, uncertainty=False).to_dict()
     assert api["margins"] == d["margins"]
 
 
@@ -177,3 +177,17 @@ def test_inline_of_3d_volume_gets_its_own_stem(tmp_path, capsys):
     assert (d["source"]["inline"], d["source"]["line_label"], d["source"]["n_traces"]) == (120, "inline 120", 120)
     code, out, err = _run(capsys, ["analyze", str(CUBE), "--out", str(tmp_path)])
     assert code == 2 and "curved_margin_cube.sgy" in err and err.count("\n") == 1
+
+
+def test_horizons_picker_needs_a_horizon_file_and_another_picker_refuses_one(synthetic_line_file, tmp_path, capsys):
+    # usage errors are one line on stderr with exit code 2 (common practice, no source)
+    path, _ = synthetic_line_file
+    code, _, err = _run(capsys, ["analyze", str(path), "--picker", "horizons", "--out", str(tmp_path)])
+    assert code == 2
+    assert err == ("clinometry: error: the 'horizons' picker reads the interpreter's horizon: give horizons= "
+                   "(--horizons FILE.csv)\n")
+    code, _, err = _run(capsys, ["analyze", str(path), "--picker", "default", "--horizons", "mine.csv",
+                                 "--out", str(tmp_path)])
+    assert code == 2
+    assert "is read by the 'horizons' picker, but picker 'default' was chosen" in err
+    assert not list(tmp_path.iterdir())

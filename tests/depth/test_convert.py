@@ -15,6 +15,7 @@ from clinometry.depth import (
     horizon_to_twt,
     section_to_depth,
     section_to_twt,
+    to_depth,
 )
 from clinometry.errors import GeometryError, VelocityError
 from clinometry.section import make_section
@@ -155,3 +156,21 @@ def test_default_velocity_fallback_is_recorded_in_section_attrs():
     assert DEFAULT_VELOCITY_NOTE in d.attrs["fallbacks"]
     assert DEFAULT_VELOCITY_NOTE not in sec.attrs["fallbacks"]
     assert d.attrs["velocity_model"]["fallback"] == DEFAULT_VELOCITY_NOTE
+
+
+def test_to_depth_takes_trace_then_z_then_velocity_and_a_number_as_constant():
+    # depth = v t / 2 for a constant velocity (Sheriff & Geldart 1995, from memory):
+    # 400 ms at 2500 m/s -> 500 m; a number and ConstantVelocity give the same float64 depths
+    sec = _twt_section(np.full(3, 500.0), source="line_e.sgy")
+    got = to_depth(sec, [0, 2], np.array([400.0, 800.0], np.float32), 2500.0)
+    assert got.dtype == np.float64
+    assert got.tolist() == [500.0, 1000.0]
+    assert to_depth(sec, [0, 2], [400.0, 800.0], ConstantVelocity(2500.0)).tolist() == got.tolist()
+    dsec = make_section(np.zeros((2, 3)), z=[0.0, 5.0, 10.0], domain="depth")
+    assert to_depth(dsec, [0, 1], [5.0, 7.5], None).tolist() == [5.0, 7.5]  # identity in depth
+
+
+def test_to_depth_assumes_no_velocity_for_a_time_section():
+    sec = _twt_section(np.full(3, 500.0), source="line_f.sgy")
+    with pytest.raises(VelocityError, match=r"line_f.sgy: section is in twt; converting to depth needs a velocity"):
+        to_depth(sec, [0], [500.0], None)

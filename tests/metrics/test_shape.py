@@ -5,7 +5,7 @@ import pytest
 from numpy.testing import assert_allclose
 from scipy.optimize import curve_fit
 
-from clinometry.metrics import margin_geometry
+from clinometry.metrics.margin_geometry import margin_geometry
 from clinometry.metrics.shape import fit_profile_shape, shape_metrics
 
 X = np.linspace(0.0, 1500.0, 61)

@@ -5,7 +5,8 @@ import pytest
 from numpy.testing import assert_allclose
 
 from clinometry.depth import ConstantVelocity, LinearVelocity
-from clinometry.metrics import margin_geometry, measure
+from clinometry.metrics import measure_picks
+from clinometry.metrics.margin_geometry import margin_geometry
 from clinometry.metrics.slope import secant_slope_max_deg, slope_metrics
 
 
@@ -49,12 +50,9 @@ def test_metrics_and_truth_share_one_max_slope_definition():
     # a Gaussian-rounded 25 deg foreset (erf profile), break and toe as the truth finds them
     from scipy.special import erf
 
-    from clinometry.metrics.slope import slope_base_length_m
-    from clinometry.synth.truth import profile_margin, slope_base_m
+    from clinometry.definitions import slope_base_length_m
+    from clinometry.synth.truth import profile_margin
 
-    for dx, dsample, grad in [(12.5, 2.5, np.tan(np.radians(20.0))), (12.5, 2.5, np.tan(np.radians(0.8))),
-                              (50.0, 1.0, 0.3), (25.0, 5.0, 0.05)]:
-        assert slope_base_length_m(dx, dsample, grad) == pytest.approx(slope_base_m(dx, dsample, grad))
     s = np.arange(0.0, 4000.0, 12.5)
     # slope of an erf step of height H and width w peaks at H / (w sqrt(pi)) (calculus)
     h, w = 300.0, 300.0
@@ -193,7 +191,7 @@ def test_clinoform_heights_and_median(build_margin, planar):
 def test_measure_fills_contract_points(build_margin, planar):
     picks, section = build_margin(planar(10.0), direction="-", dz=0.5)
     before = section.copy(deep=True)
-    mm = measure(picks, section, uncertainty=False).margins[0]
+    mm = measure_picks(picks, section, uncertainty=False).margins[0]
     # break at basinward trace 40 of a "-" line of 121 traces is section trace 80
     assert mm.shelf_break["trace"] == 80
     assert mm.shelf_break["distance_m"] == pytest.approx(80 * 25.0)
@@ -220,7 +218,7 @@ def test_platform_top_point_is_the_rim(build_margin, planar):
         return 200.0 - 8.0 * np.exp(-((x - 800.0) / 50.0) ** 2)
 
     picks, section = build_margin(planar(10.0), top_fn=top)
-    mm = measure(picks, section, uncertainty=False).margins[0]
+    mm = measure_picks(picks, section, uncertainty=False).margins[0]
     assert mm.platform_top["trace"] == 32 and mm.platform_top["depth_m"] == pytest.approx(192.0)
     assert mm.platform_top["horizon_id"] == 1
 
@@ -257,7 +255,7 @@ def test_metrics_on_the_exact_grown_surface_reproduce_the_truth_slope(name):
     b, t = m["break"]["trace"], m["toe"]["trace"]
     h = Horizon(0, "margin_profile", np.arange(n), final.astype(float), np.ones(n))
     mp = MarginPicks(m["direction"], 0, 0, PickPoint(b, float(final[b])), PickPoint(t, float(final[t])))
-    got = measure(Picks(horizons=(h,), margins=(mp,)), sec, metrics=["slope"], uncertainty=False).margins[0].values
+    got = measure_picks(Picks(horizons=(h,), margins=(mp,)), sec, metrics=["slope"], uncertainty=False).margins[0].values
     assert_allclose(got["relief_m"], m["relief_m"], rtol=1e-9)
     assert_allclose(got["slope_mean_deg"], m["slope_mean_deg"], rtol=1e-9)
     assert_allclose(got["slope_max_deg"], m["slope_max_deg"], atol=0.01)

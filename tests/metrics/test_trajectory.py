@@ -6,7 +6,7 @@ import numpy as np
 import pytest
 from numpy.testing import assert_allclose
 
-from clinometry.metrics import margin_geometry
+from clinometry.metrics.margin_geometry import margin_geometry
 from clinometry.metrics.trajectory import TRAJECTORY_FLAT_DEG, trajectory_from_breaks, trajectory_metrics
 
 

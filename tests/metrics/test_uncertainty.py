@@ -5,7 +5,8 @@ import pytest
 from numpy.testing import assert_allclose
 
 from clinometry.depth import ConstantVelocity, LinearVelocity
-from clinometry.metrics import margin_geometry, measure
+from clinometry.metrics import measure_picks
+from clinometry.metrics.margin_geometry import margin_geometry
 from clinometry.metrics.uncertainty import propagate, uncertainty_settings
 
 KEYS = ("slope_max_deg", "slope_mean_deg", "relief_m", "break_depth_m")
@@ -85,12 +86,12 @@ def test_bad_settings_named():
 def test_measure_attaches_uncertainty_and_settings(build_margin, planar):
     vel = ConstantVelocity(3000.0)
     picks, section = build_margin(planar(8.0), velocity=vel)
-    m = measure(picks, section, velocity=vel, seed=5)
+    m = measure_picks(picks, section, velocity=vel, seed=5)
     assert m.uncertainty_settings["seed"] == 5 and m.uncertainty_settings["n_draws"] == 200
     u = m.margins[0].uncertainty
     assert set(u) == set(KEYS)
     assert u["slope_max_deg"]["p10"] <= m.margins[0].values["slope_max_deg"] <= u["slope_max_deg"]["p90"]
-    assert measure(picks, section, velocity=vel, uncertainty=False).margins[0].uncertainty == {}
+    assert measure_picks(picks, section, velocity=vel, uncertainty=False).margins[0].uncertainty == {}
 
 
 class _GradientScaledLinear(LinearVelocity):

@@ -2,7 +2,7 @@
 
 from html.parser import HTMLParser
 
-from clinometry.report.html import CAUTION_TEXT, TABLE_COLUMNS, index_html, write_index
+from clinometry.report.page import CAUTION_TEXT, TABLE_COLUMNS, index_html, write_index
 
 
 class _Page(HTMLParser):

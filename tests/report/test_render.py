@@ -6,7 +6,7 @@ from pathlib import Path
 
 import pytest
 
-from clinometry.report.html import write_index
+from clinometry.report.page import write_index
 
 SCRIPT = Path(__file__).resolve().parents[2] / "scripts" / "render_index.py"
 

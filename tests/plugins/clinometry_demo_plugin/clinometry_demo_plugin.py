@@ -1,11 +1,15 @@
-"""A third-party classifier for clinometry, installed by the test suite.
+"""Third-party plugins for clinometry, installed by the test suite.
 
-It classifies a margin by its maximum foreset slope alone, with the
-declivity bands below, and shows how an outside package registers a plugin
-in the ``clinometry.classifiers`` entry-point group (see pyproject.toml).
+``classify_by_slope`` classifies a margin by its maximum foreset slope
+alone, with the declivity bands below; ``break_to_toe_km`` is an extra
+metric (it runs only when named); ``classify_by_colour`` wants an option
+clinometry never passes to a classifier, so clinometry refuses it.  They
+show how an outside package registers plugins in the ``clinometry.*``
+entry-point groups (see pyproject.toml), importing only the public
+``clinometry.plugins`` module.
 """
 
-from clinometry.classify.records import Classification
+from clinometry.plugins import Classification
 
 #: upper slope bounds per family, degrees.  Ramps dip "less than 1 degree"
 #: and rimmed-shelf slopes reach a few tens of degrees: Schlager (2005),
@@ -34,3 +38,16 @@ def classify_by_slope(metrics, *, thresholds=None, ramp_max_deg=SLOPE_BANDS_DEG[
         family, reason = "steep_margin", f"slope_max_deg {slope:.2f} >= {steep_min_deg:g}"
     return Classification(family=family, confidence=0.5, reasons=(f"demo: {reason}",), classifier="demo",
                           thresholds={"ramp_max_deg": ramp_max_deg, "steep_min_deg": steep_min_deg})
+
+
+def break_to_toe_km(geometry, *, scale_m=1000.0):
+    """Horizontal break-to-toe distance of the margin profile, km (demo plugin)."""
+    brk, toe = geometry.profile.shelf_break, geometry.profile.toe
+    if brk is None or toe is None:
+        return {"break_to_toe_km": None, "missing": {"break_to_toe_km": "break or toe not picked"}}
+    return {"break_to_toe_km": (toe["basinward_m"] - brk["basinward_m"]) / scale_m}
+
+
+def classify_by_colour(metrics, *, thresholds=None, colour):
+    """Family from the colour of the margin (demo plugin that clinometry refuses: nobody passes colour=)."""
+    return Classification(family=None, confidence=0.0, classifier="demo_colour", reasons=(f"colour {colour}",))

@@ -1,4 +1,4 @@
-"""Shared CLI velocity options: parsing, exclusivity, help text with units."""
+"""Shared CLI analysis options: velocity parsing, exclusivity, help text with units, the options object."""
 
 import argparse
 import re
@@ -7,7 +7,7 @@ import numpy as np
 import pytest
 from numpy.testing import assert_allclose
 
-from clinometry.cli._velocity import add_velocity_options, velocity_from_args
+from clinometry.cli._options import add_velocity_options, velocity_from_args
 from clinometry.depth import DEFAULT_VELOCITY_M_S
 from clinometry.errors import VelocityError
 from clinometry.section import make_section

@@ -7,7 +7,7 @@ it, per margin, the depth profile with its slope along distance on a twin
 axis (break-to-toe shaded), and a text panel with family, confidence,
 reasons and key metrics (P10-P90 where the Monte-Carlo uncertainty was
 run).  Colours follow the Okabe-Ito palette (see
-:mod:`clinometry.report._style`).
+:mod:`clinometry.report.figures._style`).
 """
 
 from __future__ import annotations
@@ -18,6 +18,7 @@ import textwrap
 
 import numpy as np
 
+from ..tables import margin_percentile, margin_value
 from ._style import (
     _BREAK_STYLE,
     _FONT_SIZE,
@@ -169,10 +170,8 @@ def _fmt(v, unit="", digits=1):
 
 
 def _metric_line(margin, key, label, unit, digits=1):
-    from .files import _percentile, _value
-
-    v = _value(margin, key)
-    p10, p90 = _percentile(margin, key, "p10"), _percentile(margin, key, "p90")
+    v = margin_value(margin, key)
+    p10, p90 = margin_percentile(margin, key, "p10"), margin_percentile(margin, key, "p90")
     text = f"{label}: {_fmt(v, unit, digits)}"
     if p10 is not None and p90 is not None:
         text += f"  (P10-P90 {_fmt(p10, '', digits)}-{_fmt(p90, unit, digits)})"

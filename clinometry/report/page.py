@@ -17,7 +17,7 @@ import html
 import logging
 from urllib.parse import quote
 
-from .files import atomic_write
+from .atomic import atomic_write
 
 __all__ = ["CAUTION_TEXT", "TABLE_COLUMNS", "index_html", "write_index"]
 
@@ -140,7 +140,7 @@ def index_html(*, margins, lines, errors, summary_png=None, map_png=None, title=
     Parameters
     ----------
     margins : list of dict
-        Rows of the margins table (:func:`clinometry.report.files.margin_rows`),
+        Rows of the margins table (:func:`clinometry.report.tables.margin_rows`),
         optionally with ``json`` (relative link to the line's result).
     lines : list of dict
         One per line: ``stem``, ``file``, ``line``, ``status`` (``"ok"`` or

@@ -1,4 +1,4 @@
-"""Shared look of the report figures: palette, marker styles, figure helpers.
+"""Shared look of the report figures: palette, marker styles, figure helpers (private).
 
 Colours come from the Okabe-Ito palette, chosen because it stays
 distinguishable for the common forms of colour-vision deficiency [1]_.
@@ -17,7 +17,7 @@ from __future__ import annotations
 
 import io
 
-from .files import atomic_write
+from ..atomic import atomic_write
 
 __all__ = ["OKABE_ITO", "FAMILY_COLORS", "ROLE_STYLES"]
 

@@ -1,19 +1,11 @@
-"""Output files of a run: atomic writes, safe names, margins and errors tables.
-
-Every file is written atomically: the bytes go to a temporary file in the
-same directory, which is flushed, synced and then renamed over the target
-with :func:`os.replace`.  A rename within one file system is atomic on POSIX
-and Windows, so a run killed part-way leaves either the old file or the new
-one, never half a file (common practice, no source).
-
-Output names are derived from input file names and header values, which come
-from outside; :func:`safe_name` reduces them to letters, digits, ``-``, ``_``
-and ``.`` with no leading dot, so no name can climb out of the output folder
-or hide itself.
+"""Tables of a run: margins, errors and horizons rows, and writing them as CSV or Parquet.
 
 The margins table has one row per margin of every line, flattened from the
 result JSON contract (``margins[*]``); the errors table has one row per line
-that failed.
+that failed; the horizons table (``<stem>.horizons.csv``) has one row per
+picked point, with its depth taken from the result
+(:attr:`clinometry.result.Result.horizon_depths_m`).  Every file is written
+with :func:`clinometry.report.atomic.atomic_write`.
 """
 
 from __future__ import annotations
@@ -22,26 +14,26 @@ import csv
 import io
 import logging
 import math
-import os
 import re
-import tempfile
 from pathlib import Path
 
-from ..picking.export import HORIZON_COLUMNS  # columns of <stem>.horizons.csv
+import numpy as np
+
+from .atomic import atomic_write
 
 __all__ = [
-    "atomic_write",
-    "safe_name",
     "MARGIN_COLUMNS",
     "ERROR_COLUMNS",
+    "HORIZON_COLUMNS",
     "margin_rows",
+    "margin_value",
+    "margin_percentile",
+    "horizon_rows",
     "csv_text",
     "write_csv",
     "write_margins_csv",
     "write_margins_parquet",
     "write_errors_csv",
-    "HORIZON_COLUMNS",
-    "write_result_files",
 ]
 
 logger = logging.getLogger(__name__)
@@ -82,88 +74,10 @@ MARGIN_COLUMNS = (
 #: columns of errors.csv, in order
 ERROR_COLUMNS = ("file", "line", "error_type", "message")
 
-_SAFE = re.compile(r"[^A-Za-z0-9._-]+")
-
-
-def atomic_write(path, data) -> Path:
-    """Write ``data`` to ``path`` atomically (temporary file + rename).
-
-    Parameters
-    ----------
-    path : str or os.PathLike
-        Target file; its folder must exist.
-    data : str or bytes
-        Text is written as UTF-8.
-
-    Returns
-    -------
-    pathlib.Path
-        The target path.
-
-    Raises
-    ------
-    OSError
-        When the folder is not writable; the temporary file is removed.
-
-    Notes
-    -----
-    The temporary file lives in the target's folder so that the final
-    :func:`os.replace` is a rename within one file system (common practice,
-    no source).
-
-    Examples
-    --------
-    >>> import tempfile, pathlib
-    >>> d = pathlib.Path(tempfile.mkdtemp())
-    >>> atomic_write(d / "a.txt", "hello").read_text()
-    'hello'
-    """
-    path = Path(path)
-    payload = data.encode("utf-8") if isinstance(data, str) else bytes(data)
-    fd, tmp = tempfile.mkstemp(dir=path.parent, prefix=f".{path.name}.", suffix=".tmp")
-    try:
-        with os.fdopen(fd, "wb") as fh:
-            fh.write(payload)
-            fh.flush()
-            os.fsync(fh.fileno())
-        os.replace(tmp, path)
-    except BaseException:
-        try:
-            os.unlink(tmp)
-        except FileNotFoundError:
-            pass
-        raise
-    return path
-
-
-def safe_name(text, *, default: str = "line") -> str:
-    """Reduce ``text`` to a file-name part with no path separators or traversal.
-
-    Parameters
-    ----------
-    text : str
-        A file stem or header value.
-    default : str
-        Returned when nothing usable is left.
-
-    Returns
-    -------
-    str
-        Only ``A-Z a-z 0-9 . _ -``, no leading dot or dash, no ``..``, at
-        most 120 characters.
-
-    Examples
-    --------
-    >>> safe_name("../../etc/passwd")
-    'etc_passwd'
-    >>> safe_name(".hidden line 7.sgy")
-    'hidden_line_7.sgy'
-    """
-    s = _SAFE.sub("_", str(text))
-    s = re.sub(r"\.{2,}", "_", s)
-    s = re.sub(r"_+", "_", s).strip("._-")
-    s = s[:120].rstrip("._-")
-    return s or default
+#: columns of ``<stem>.horizons.csv``, in order: plain columns any
+#: interpretation software can import (``z`` in the section's units, ms TWT
+#: or m; ``depth_m`` positive down)
+HORIZON_COLUMNS = ("horizon_id", "role", "trace", "distance_m", "x", "y", "z", "depth_m", "quality")
 
 
 def _number(v):
@@ -176,8 +90,8 @@ def _number(v):
     return v
 
 
-def _percentile(margin, key, which):
-    """P10/P90 of a value from a margin dict: nested ``uncertainty`` or flat keys."""
+def margin_percentile(margin, key, which):
+    """P10/P90 (``which``) of a value from a margin dict: nested ``uncertainty`` or flat keys; None if absent."""
     unc = margin.get("uncertainty") or {}
     entry = unc.get(key) if isinstance(unc, dict) else None
     if isinstance(entry, dict) and which in entry:
@@ -188,7 +102,8 @@ def _percentile(margin, key, which):
     return _number(margin.get(f"{key}_{which}"))
 
 
-def _value(margin, key):
+def margin_value(margin, key):
+    """The value of ``key`` in a margin dict (a ``{"value"|"p50": ..}`` dict gives its value); None if absent."""
     val = margin.get(key)
     if isinstance(val, dict):  # {"value": .., "p10": ..} style
         val = val.get("value", val.get("p50"))
@@ -234,14 +149,77 @@ def margin_rows(result, *, file="", line="", stem="") -> list:
             for k in ("trace", "distance_m", "x", "y", "depth_m"):
                 row[f"{name}_{k}"] = _number(pt.get(k))
         for key in ("slope_max_deg", "slope_mean_deg", "relief_m"):
-            row[key] = _value(m, key)
-            row[f"{key}_p10"] = _percentile(m, key, "p10")
-            row[f"{key}_p90"] = _percentile(m, key, "p90")
+            row[key] = margin_value(m, key)
+            row[f"{key}_p10"] = margin_percentile(m, key, "p10")
+            row[f"{key}_p90"] = margin_percentile(m, key, "p90")
         traj = m.get("trajectory") or {}
         row["trajectory_class"] = traj.get("class")
         row["trajectory_angle_deg"] = _number(traj.get("angle_deg"))
         row["n_clinoforms"] = len(m.get("clinoforms") or [])
         rows.append(row)
+    return rows
+
+
+def _rounded(values) -> list:
+    """Python floats rounded to 0.001 of their unit."""
+    return [round(v, 3) for v in np.asarray(values, dtype=float).tolist()]
+
+
+def horizon_rows(result, section) -> list:
+    """Rows of ``<stem>.horizons.csv``: one per point of every picked horizon.
+
+    Parameters
+    ----------
+    result : clinometry.result.Result
+        Its ``picks.horizons`` give the points, its ``horizon_depths_m``
+        their depths (converted by the pipeline with the run's velocity).
+    section : xarray.DataArray, dims ("trace", "z")
+        The section the picks were made on (for distance, x, y).
+
+    Returns
+    -------
+    list of dict
+        Keys :data:`HORIZON_COLUMNS`; numbers rounded to 0.001 of their
+        unit; ``depth_m`` None where the result holds no depths (a result
+        re-read from JSON).
+
+    Examples
+    --------
+    >>> from clinometry.metrics import Metrics
+    >>> from clinometry.picking.picks import Horizon, Picks
+    >>> from clinometry.result import Result
+    >>> from clinometry.section import make_section
+    >>> s = make_section(np.zeros((3, 4)), z=[0, 4, 8, 12], trace_spacing_m=10.0)
+    >>> p = Picks(horizons=(Horizon(0, "reflector", [0, 2], [4.0, 8.0], [1.0, 0.5]),))
+    >>> r = Result(source={}, velocity={}, picks=p, metrics=Metrics(), horizon_depths_m=(np.array([5.0, 10.0]),))
+    >>> [(x["trace"], x["distance_m"], x["z"], x["depth_m"]) for x in horizon_rows(r, s)]
+    [(0, 0.0, 4.0, 5.0), (2, 20.0, 8.0, 10.0)]
+    """
+    picks = result.picks
+    if picks is None or not picks.horizons:
+        return []
+    dist = np.asarray(section["distance"].values)
+    xs = np.asarray(section["x"].values) if "x" in section.coords else dist
+    ys = np.asarray(section["y"].values) if "y" in section.coords else np.zeros_like(dist)
+    depths = result.horizon_depths_m or (None,) * len(picks.horizons)
+    rows = []
+    for h, depth in zip(picks.horizons, depths):
+        n = len(h)
+        if n == 0:
+            continue
+        t = np.asarray(h.trace, dtype=np.int64)
+        columns = {
+            "horizon_id": [int(h.id)] * n,
+            "role": [h.role] * n,
+            "trace": t.tolist(),
+            "distance_m": _rounded(dist[t]),
+            "x": _rounded(xs[t]),
+            "y": _rounded(ys[t]),
+            "z": _rounded(h.z),
+            "depth_m": _rounded(depth) if depth is not None else [None] * n,
+            "quality": _rounded(h.quality),
+        }
+        rows.extend(dict(zip(HORIZON_COLUMNS, cells)) for cells in zip(*(columns[c] for c in HORIZON_COLUMNS)))
     return rows
 
 
@@ -346,59 +324,3 @@ def write_margins_parquet(rows, path):
     buf = pa.BufferOutputStream()
     pq.write_table(table, buf)
     return atomic_write(path, buf.getvalue().to_pybytes())
-
-
-def write_result_files(result, out_dir, *, stem, plot=True, section=None, velocity=None) -> dict:
-    """Write the files of one analysed line: JSON, horizons CSV and QC plot.
-
-    Parameters
-    ----------
-    result : clinometry.result.Result
-    out_dir : str or os.PathLike
-        Created if missing.
-    stem : str
-        File stem (reduced with :func:`safe_name`).
-    plot : bool
-        Write ``<stem>.png`` with :func:`clinometry.report.plots.qc_figure`.
-    section : xarray.DataArray, dims ("trace", "z"), optional
-        The analysed section; needed for the horizons table and the plot.
-    velocity : velocity model, optional
-        The model of the run (None for depth sections), for ``depth_m``.
-
-    Returns
-    -------
-    dict
-        ``{"json": path, "horizons": path or None, "plot": path or None}``;
-        a file that could not be written for lack of input is None and the
-        reason is logged at INFO.
-
-    Notes
-    -----
-    Every file is written with :func:`atomic_write`.  The horizons table has
-    the columns :data:`HORIZON_COLUMNS` (rows from
-    :func:`clinometry.picking.export.horizon_rows`); with no horizons it
-    holds only the header.
-    """
-    out = Path(out_dir)
-    out.mkdir(parents=True, exist_ok=True)
-    stem = safe_name(stem)
-    paths = {"json": atomic_write(out / f"{stem}.json", result.to_json(indent=2) + "\n"), "horizons": None, "plot": None}
-    if section is None:
-        logger.info("%s: no section given; horizons table and QC plot skipped", stem)
-        return paths
-    rows = []
-    if result.picks is not None and result.picks.horizons:
-        from ..picking.export import horizon_rows
-
-        rows = horizon_rows(result.picks, section, velocity)
-    paths["horizons"] = write_csv(rows, out / f"{stem}.horizons.csv", HORIZON_COLUMNS)
-    if plot:
-        try:
-            from .plots import qc_figure
-        except ImportError as err:
-            logger.info("%s: QC plot skipped (clinometry.report.plots.qc_figure not available: %s)", stem, err)
-        else:
-            target = out / f"{stem}.png"
-            qc_figure(result, section, target)
-            paths["plot"] = target
-    return paths

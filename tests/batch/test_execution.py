@@ -11,7 +11,7 @@ import shutil
 import pytest
 
 from clinometry.batch import run_batch
-from clinometry.batch import run as batch_run
+from clinometry.batch import execution as batch_run
 from clinometry.result import validate_result_dict
 
 from .conftest import BATCH_SCENARIOS

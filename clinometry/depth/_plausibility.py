@@ -1,4 +1,4 @@
-"""Shared checks and unit constants for the velocity models (private)."""
+"""Plausibility limits and checks of velocities, and unit constants, shared by the velocity models (private)."""
 
 from __future__ import annotations
 

@@ -1,4 +1,4 @@
-"""Build a velocity model from command-line-like options, and read velocity tables.
+"""Build a velocity model from command-line-like options.
 
 One function, :func:`velocity_from_options`, turns what a user typed (a
 constant, a linear gradient, a file) into a model, so every command and the
@@ -12,10 +12,10 @@ from __future__ import annotations
 
 import logging
 import os
-import re
 from collections.abc import Mapping, Sequence
 
 from ..errors import VelocityError
+from ..io.sniff import has_segy_suffix
 from ..section import DOMAINS, section_name
 from .models import (
     DEFAULT_VELOCITY_M_S,
@@ -26,98 +26,38 @@ from .models import (
 )
 from ._matching import LATERAL_MODES
 from .section_velocity import SectionVelocity
-from .table import TableVelocity
+from .table import TableVelocity, read_velocity_table
 
 logger = logging.getLogger(__name__)
 
-__all__ = ["velocity_from_options", "velocity_from_dict", "read_velocity_table", "is_segy_file", "VELOCITY_KINDS"]
+__all__ = ["velocity_from_options", "velocity_from_dict", "is_segy_file", "VELOCITY_KINDS"]
 
 VELOCITY_KINDS = ("interval", "rms")
-_SEGY_SUFFIXES = (".sgy", ".segy", ".seg-y", ".seg")
+#: file-name endings of velocity tables (text); SEG-Y endings are
+#: :data:`clinometry.io.sniff.SEGY_SUFFIXES`
 _TABLE_SUFFIXES = (".csv", ".txt", ".dat", ".tsv", ".tbl", ".vel")
 #: bytes read to tell a text table from SEG-Y: the SEG-Y rev 1 textual header
 #: is 3200 bytes and the binary header 400 more (SEG Technical Standards
 #: Committee 2002, SEG-Y rev 1, section 3)
 _SNIFF_BYTES = 3600
-_SPLIT = re.compile(r"[,;\s]+")
 
 
 def is_segy_file(path) -> bool:
     """True when ``path`` looks like SEG-Y rather than a text table.
 
-    Decided by suffix (``.sgy``, ``.segy`` ...) and, for other names, by
-    whether the first 3600 bytes (textual + binary header in SEG-Y rev 1)
-    are all printable text (common practice, no source).
+    Decided by suffix (:data:`clinometry.io.sniff.SEGY_SUFFIXES`, or a
+    table ending such as ``.csv``) and, for other names, by whether the
+    first 3600 bytes (textual + binary header in SEG-Y rev 1) are all
+    printable text (common practice, no source).
     """
-    name = os.fspath(path).lower()
-    if name.endswith(_SEGY_SUFFIXES):
+    if has_segy_suffix(path):
         return True
-    if name.endswith(_TABLE_SUFFIXES):
+    if os.fspath(path).lower().endswith(_TABLE_SUFFIXES):
         return False
     with open(path, "rb") as fh:
         head = fh.read(_SNIFF_BYTES)
     printable = set(range(32, 127)) | {9, 10, 13}
     return not all(b in printable for b in head)
-
-
-def read_velocity_table(path, *, kind: str = "interval") -> TableVelocity:
-    """Read a two-column text/CSV table of two-way time (ms) and velocity (m/s).
-
-    Parameters
-    ----------
-    path : str or os.PathLike
-        Text file; columns separated by commas, semicolons, tabs or spaces;
-        ``#`` starts a comment; one header line of column names is allowed.
-    kind : {"interval", "rms"}
-
-    Returns
-    -------
-    TableVelocity
-
-    Raises
-    ------
-    VelocityError
-        No rows, a row without exactly two numbers (the message names file
-        and line), or any check of :class:`TableVelocity`.
-    OSError
-        The file cannot be opened.
-
-    Examples
-    --------
-    >>> import tempfile, pathlib
-    >>> with tempfile.TemporaryDirectory() as folder:
-    ...     p = pathlib.Path(folder) / "v.csv"
-    ...     _ = p.write_text("twt_ms,velocity_m_s\\n0,1800\\n1000,2600\\n")
-    ...     print(read_velocity_table(p).describe())
-    interval velocity table from v.csv: 2 rows, 0-1000 ms, interval 1800-2600 m/s
-    """
-    fname = os.path.basename(os.fspath(path))
-    times, vels = [], []
-    with open(path, encoding="utf-8", errors="replace") as fh:
-        for lineno, raw in enumerate(fh, start=1):
-            line = raw.split("#", 1)[0].strip()
-            if not line:
-                continue
-            cols = [c for c in _SPLIT.split(line) if c]
-            try:
-                vals = [float(c) for c in cols]
-            except ValueError as err:
-                if not times and all(re.match(r"^[A-Za-z_]", c) for c in cols):
-                    continue  # a header line of column names
-                raise VelocityError(
-                    f"{fname} line {lineno}: {line!r} is not two numbers (two-way time in ms, velocity in m/s)"
-                ) from err
-            if len(vals) != 2:
-                raise VelocityError(
-                    f"{fname} line {lineno}: expected 2 columns (two-way time ms, velocity m/s), found {len(vals)}"
-                )
-            times.append(vals[0])
-            vels.append(vals[1])
-    if not times:
-        raise VelocityError(f"{fname}: no velocity rows found; expected lines of 'twt_ms, velocity_m_s'")
-    model = TableVelocity(times, vels, kind, source=fname)
-    logger.info("velocity: %s", model.describe())
-    return model
 
 
 def velocity_from_options(

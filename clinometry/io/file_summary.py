@@ -17,7 +17,7 @@ import os
 import numpy as np
 
 from .headers import TRACE_HEADER, apply_scalar
-from .geometry import TraceHeaders, check_header_bytes, survey_geometry
+from .survey_geometry import TraceHeaders, check_header_bytes, survey_geometry
 from .segy import MAX_SAMPLE_INTERVAL, delay_from_headers, sample_interval_from_headers
 from .sniff import sniff_segy
 

@@ -21,8 +21,8 @@ Conventions
     Depth below the z origin of the section (time zero, delay included),
     positive down, as in the results contract.
 
-Depth conversion is :func:`clinometry.depth.horizon_to_depth` with the
-run's velocity model; depth-domain sections are taken as they are and need
+Depth conversion is :func:`clinometry.depth.to_depth` with the run's
+velocity model; depth-domain sections are taken as they are and need
 no velocity.
 """
 
@@ -33,12 +33,12 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from ..depth import horizon_to_depth
+from ..depth import to_depth
 from ..errors import GeometryError
 from ..section import check_section, section_name
-from .records import POINT_KEYS
+from .metric_records import POINT_KEYS
 
-__all__ = ["SurfaceGeometry", "MarginGeometry", "margin_geometry", "to_depth"]
+__all__ = ["SurfaceGeometry", "MarginGeometry", "margin_geometry"]
 
 logger = logging.getLogger(__name__)
 
@@ -163,42 +163,14 @@ class MarginGeometry:
         return self.point(pick["trace"], pick["z"], pick["depth_m"])
 
 
-def to_depth(section, velocity, trace, z) -> np.ndarray:
-    """Depth in m of positions ``(trace, z)`` of a section.
-
-    Parameters
-    ----------
-    section : xarray.DataArray, dims ("trace", "z")
-    velocity : VelocityModel or None
-        A model of :mod:`clinometry.depth`; None only for depth sections.
-    trace : array_like of int, shape (n,)
-    z : array_like of float, shape (n,)
-        ms TWT or m, in the section's domain.
-
-    Returns
-    -------
-    numpy.ndarray, shape (n,), m
-
-    Raises
-    ------
-    VelocityError
-        TWT section and no velocity model.
-
-    See Also
-    --------
-    clinometry.depth.horizon_to_depth
-    """
-    return np.asarray(horizon_to_depth(section, trace, np.asarray(z, dtype=np.float64), velocity), dtype=np.float64)
-
-
 def _dz_depth(section, velocity, trace, z) -> np.ndarray:
     """d(depth)/d(z) at each position, by a centred difference of half a sample."""
     if section.attrs["domain"] == "depth":
         return np.ones(np.shape(z))
     h = 0.5 * float(section.attrs["sample_interval"])
     z = np.asarray(z, dtype=np.float64)
-    lo = to_depth(section, velocity, trace, np.maximum(z - h, 0.0))
-    hi = to_depth(section, velocity, trace, z + h)
+    lo = to_depth(section, trace, np.maximum(z - h, 0.0), velocity)
+    hi = to_depth(section, trace, z + h, velocity)
     return (hi - lo) / ((z + h) - np.maximum(z - h, 0.0))
 
 
@@ -208,14 +180,14 @@ def _surface(section, velocity, horizon, sign, origin, distance, brk, toe, break
     z = horizon.z[order]
     keep = np.isfinite(z)
     trace, z = trace[keep], z[keep]
-    depth = to_depth(section, velocity, trace, z)
+    depth = to_depth(section, trace, z, velocity)
     dzd = _dz_depth(section, velocity, trace, z)
     b = sign * (distance[trace] - origin) + 0.0  # + 0.0 turns -0.0 into 0.0
 
     def _pick(p):
         if p is None:
             return None
-        d = float(to_depth(section, velocity, [p.trace], [p.z])[0])
+        d = float(to_depth(section, [p.trace], [p.z], velocity)[0])
         return {
             "trace": int(p.trace),
             "basinward_m": float(sign * (distance[int(p.trace)] - origin)) + 0.0,
@@ -330,7 +302,7 @@ def margin_geometry(picks, margin, section, velocity=None) -> MarginGeometry:
         dsample = dt
     else:
         ref = profile.shelf_break or {"trace": int(profile.trace[len(profile) // 2]), "z": float(profile.z[len(profile) // 2])}
-        lo, hi = to_depth(section, velocity, [ref["trace"]] * 2, [ref["z"], ref["z"] + dt])
+        lo, hi = to_depth(section, [ref["trace"]] * 2, [ref["z"], ref["z"] + dt], velocity)
         dsample = float(hi - lo)
     return MarginGeometry(
         direction=margin.direction,

@@ -34,16 +34,12 @@ import sys
 import threading
 from collections import deque
 from concurrent.futures import ProcessPoolExecutor, as_completed
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 from pathlib import Path
 
 from ..errors import ClinometryError
-from ..report.files import (
-    margin_rows,
-    write_errors_csv,
-    write_margins_csv,
-    write_margins_parquet,
-)
+from ..pipeline import AnalysisOptions, check_choices
+from ..report.tables import margin_rows, write_errors_csv, write_margins_csv, write_margins_parquet
 from .tasks import TaskOptions, is_complete, output_names, plan_tasks, run_task
 
 __all__ = ["BatchSummary", "run_batch", "collect_tables"]
@@ -102,12 +98,12 @@ def _warm_up(plot):
     """Pool initializer: import the analysis (and, with plots, matplotlib) once per worker."""
     from .. import pipeline  # noqa: F401  (the imports are the point)
     from .._plugins import load_plugin
-    from ..report import files  # noqa: F401
+    from ..report import line_files  # noqa: F401
 
     load_plugin("picker", "default")
     load_plugin("classifier", "rules")
     if plot:
-        from ..report import plots  # noqa: F401
+        from ..report import figures  # noqa: F401
 
 
 def _ready():
@@ -289,26 +285,18 @@ def collect_tables(tasks, out_dir, *, plot=True):
 def run_batch(
     paths,
     out_dir,
+    options: AnalysisOptions | None = None,
     *,
     workers=None,
     scheduler=None,
     resume=False,
     inlines=None,
     crosslines=None,
-    velocity=None,
-    velocity_linear=None,
-    velocity_file=None,
-    velocity_kind="interval",
     file_velocity=None,
-    domain=None,
-    picker="default",
-    classifier="rules",
-    thresholds=None,
-    uncertainty=True,
-    seed=0,
     plot=True,
     quiet=False,
     title="clinometry batch review",
+    **option_keywords,
 ) -> BatchSummary:
     """Analyse many lines and write per-line files, tables, figures and the review page.
 
@@ -318,6 +306,8 @@ def run_batch(
         SEG-Y files, folders and glob patterns.
     out_dir : str or os.PathLike
         Output folder (created).
+    options : AnalysisOptions, optional
+        How every line is analysed (see :func:`clinometry.pipeline.run_analysis`).
     workers : int, optional
         Local processes, this one included; default every core
         (``os.cpu_count()``).  1 runs in this process only.
@@ -329,8 +319,6 @@ def run_batch(
         settings (see :func:`clinometry.batch.tasks.is_complete`).
     inlines, crosslines : str, optional
         ``all`` or ``A:B:STEP`` for 3D volumes (default every inline).
-    velocity, velocity_linear, velocity_file, velocity_kind, domain, picker, classifier, thresholds, uncertainty, seed
-        Passed to :func:`clinometry.pipeline.analyze` for every line.
     file_velocity : dict, optional
         File path -> ``{"velocity": v_m_s}`` or ``{"velocity_linear":
         (v0_m_s, k_per_s)}`` for files that need their own velocity.
@@ -340,6 +328,9 @@ def run_batch(
         No progress bar.
     title : str
         Title of the review page.
+    **option_keywords
+        Fields of :class:`~clinometry.pipeline.AnalysisOptions`, on top of
+        ``options`` (e.g. ``velocity=2800.0``).
 
     Returns
     -------
@@ -350,25 +341,34 @@ def run_batch(
     OSError
         When the output folder cannot be created.
     ClinometryError
-        Bad line selection, or an unreachable Dask scheduler.
+        Bad line selection, an unreachable Dask scheduler, a horizon file
+        (it belongs to one line: use ``analyze``), or thresholds or plugin
+        choices that are refused (checked once, before any line runs).
+
+    Notes
+    -----
+    The thresholds are resolved once here and the resolved table goes to
+    every task, so a TOML file is read once and a bad one stops the run at
+    the start.
     """
+    analysis = AnalysisOptions(**option_keywords) if options is None else replace(options, **option_keywords)
+    if analysis.horizons is not None:
+        raise ClinometryError("a batch cannot use one horizon file for every line; measure it with "
+                              "clinometry analyze FILE --horizons PICKS.csv")
+    analysis = replace(
+        analysis,
+        velocity=float(analysis.velocity) if isinstance(analysis.velocity, (int, float)) else analysis.velocity,
+        velocity_file=None if analysis.velocity_file is None else str(Path(analysis.velocity_file).resolve()),
+    )
+    analysis = replace(analysis, thresholds=check_choices(analysis))
     out = Path(out_dir)
     out.mkdir(parents=True, exist_ok=True)
     tasks, problems = plan_tasks(paths, inlines=inlines, crosslines=crosslines)
     options = TaskOptions(
         out_dir=str(out.resolve()),
-        velocity=None if velocity is None else float(velocity),
-        velocity_linear=None if velocity_linear is None else tuple(float(v) for v in velocity_linear),
-        velocity_file=None if velocity_file is None else str(Path(velocity_file).resolve()),
-        velocity_kind=str(velocity_kind or "interval"),
-        file_velocity={os.path.abspath(k): dict(v) for k, v in (file_velocity or {}).items()},
-        domain=domain,
-        picker=picker,
-        classifier=classifier,
-        thresholds=None if thresholds is None else str(thresholds),
-        uncertainty=bool(uncertainty),
-        seed=int(seed),
+        analysis=analysis,
         plot=bool(plot),
+        file_velocity={os.path.abspath(k): dict(v) for k, v in (file_velocity or {}).items()},
     )
     todo, skipped = [], 0
     for t in tasks:
@@ -410,7 +410,7 @@ def run_batch(
         files["margins_parquet"] = parquet
     summary_png = map_png = None
     if plot and margins:
-        from ..report.plots import map_figure, summary_figure
+        from ..report.figures import map_figure, summary_figure
 
         summary_png = summary_figure(margins, out / "summary.png")
         if any(t.direction for t in tasks):
@@ -419,7 +419,7 @@ def run_batch(
         files["summary_png"] = summary_png
     if map_png:
         files["map_png"] = map_png
-    from ..report.html import write_index
+    from ..report.page import write_index
 
     files["index_html"] = write_index(
         out / "index.html", margins=margins, lines=lines, errors=errors,

@@ -1,4 +1,4 @@
-"""An interpreter's own horizon: read it, match it to the traces, find its margins.
+"""The picker plugin ``horizons``: an interpreter's own horizon instead of the automatic picks.
 
 Interpreters often have the margin picked already.  :func:`read_horizon_csv`
 reads such a pick from a CSV file (columns ``trace`` or ``x, y``, and ``z``
@@ -8,6 +8,10 @@ file, row and column.  :func:`picks_from_horizon` then finds direction,
 shelf break and toe on that horizon with the picking step's own margin
 analysis (:func:`clinometry.picking.margins.profile_candidates`), so a
 user horizon and an automatic pick are measured the same way.
+
+:func:`pick_from_horizons` joins the two as a picker plugin like any other
+(entry point ``horizons`` of ``clinometry.pickers``), selected with
+``--picker horizons --horizons FILE`` or ``analyze(path, horizons=FILE)``.
 """
 
 from __future__ import annotations
@@ -15,15 +19,19 @@ from __future__ import annotations
 import csv
 import logging
 import math
+import os
 from dataclasses import replace
 from pathlib import Path
 
 import numpy as np
 
-from ..errors import HorizonFileError
-from ..picking.picks import Horizon, Picks
+from .depth import to_depth
+from .errors import HorizonFileError
+from .picking.picks import Horizon, Picks
 
 __all__ = [
+    "pick_from_horizons",
+    "horizon_source",
     "read_horizon_csv",
     "picks_from_horizon",
     "HORIZON_MAX_OFFSET_TRACES",
@@ -47,19 +55,72 @@ USER_HORIZON_MIN_RELIEF_M = 20.0
 HORIZON_MAX_OFFSET_TRACES = 1.0
 
 
+def pick_from_horizons(section, *, velocity=None, horizons, smoothing_m: float | None = None,
+                       min_relief_m: float | None = None) -> Picks:
+    """Margins on the interpreter's own horizon (CSV file or Horizon) instead of automatic picks.
+
+    Parameters
+    ----------
+    section : xarray.DataArray, dims ("trace", "z")
+    velocity : VelocityModel, float (m/s) or None
+        For the depth conversion; None only for depth sections.
+    horizons : str, os.PathLike or Horizon
+        The horizon: a CSV file read with :func:`read_horizon_csv`, or a
+        :class:`~clinometry.picking.picks.Horizon`.
+    smoothing_m, min_relief_m : float, m, optional
+        See :func:`picks_from_horizon`.
+
+    Returns
+    -------
+    Picks
+        ``picker="horizons"``; no margin (with a note) when no leg of the
+        horizon deepens basinward enough.
+
+    Raises
+    ------
+    HorizonFileError
+        The file cannot be read or does not match the section.
+    VelocityError
+        TWT section and no velocity.
+    """
+    horizon = horizons if isinstance(horizons, Horizon) else read_horizon_csv(horizons, section)
+    return picks_from_horizon(horizon, section, velocity, smoothing_m=smoothing_m, min_relief_m=min_relief_m)
+
+
+def horizon_source(horizons) -> str:
+    """How ``run.horizon_source`` names the horizon: its file, or that the caller gave it."""
+    return "Horizon given by the caller" if isinstance(horizons, Horizon) else os.fspath(horizons)
+
+
 def picks_from_horizon(horizon: Horizon, section, model, *, smoothing_m=None, min_relief_m=None) -> Picks:
     """Margin picks on a user horizon with the picking step's margin functions.
 
     The horizon is interpolated linearly onto every trace of its span (the
     interpreter's line between picks), converted to depth with the run's
-    velocity model, and handed to
+    velocity model (:func:`clinometry.depth.to_depth`), and handed to
     :func:`clinometry.picking.margins.profile_candidates`, the same break /
     toe / direction analysis the automatic picker applies to each tracked
     surface.  Each accepted candidate becomes one margin whose only
     clinoform is the horizon itself.
+
+    Parameters
+    ----------
+    horizon : Horizon
+    section : xarray.DataArray, dims ("trace", "z")
+    model : VelocityModel, float (m/s) or None
+        None only for depth sections.
+    smoothing_m : float, m, optional
+        Gaussian smoothing before curvature; default
+        :data:`USER_HORIZON_SMOOTHING_TRACES` trace spacings.
+    min_relief_m : float, m, optional
+        Default :data:`USER_HORIZON_MIN_RELIEF_M`.
+
+    Returns
+    -------
+    Picks
     """
-    from ..picking.margins import profile_candidates, to_depth
-    from ..picking.picks import ClinoformPicks, MarginPicks, PickPoint
+    from .picking.margins import profile_candidates
+    from .picking.picks import ClinoformPicks, MarginPicks, PickPoint
 
     horizon = replace(horizon, role="user") if horizon.role != "user" else horizon
     traces = np.arange(int(horizon.trace[0]), int(horizon.trace[-1]) + 1)
@@ -99,7 +160,7 @@ def picks_from_horizon(horizon: Horizon, section, model, *, smoothing_m=None, mi
             f"no leg of the horizon deepens basinward by {min_relief_m:g} m or more from a flatter top "
             "over a foreset of several traces"
         )
-    return Picks(horizons=(horizon,), margins=tuple(margins), picker="user_horizon",
+    return Picks(horizons=(horizon,), margins=tuple(margins), picker="horizons",
                  parameters=params, notes=tuple(notes))
 
 

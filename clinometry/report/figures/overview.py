@@ -1,6 +1,5 @@
-"""Report figures: the per-line QC figure, and the summary and map of a batch.
+"""The figures of a whole run: the summary and the map of a batch.
 
-* :func:`qc_figure` (from :mod:`clinometry.report.qc`), one per line.
 * :func:`summary_figure`, one per batch: distributions of maximum slope and
   relief per margin family (points are margins, bar is the median).
 * :func:`map_figure`, for 3D volumes: shelf-break points in x-y coloured by
@@ -8,7 +7,7 @@
   the strike of a margin and changes along it show.
 
 Colours come from the Okabe-Ito palette [1]_ (see
-:mod:`clinometry.report._style`).
+:mod:`clinometry.report.figures._style`).
 
 References
 ----------
@@ -23,11 +22,9 @@ import logging
 
 import numpy as np
 
-from ._style import _FONT_SIZE, FAMILY_COLORS, OKABE_ITO, ROLE_STYLES, _figure, _save
-from .qc import qc_figure, vertical_exaggeration
+from ._style import _FONT_SIZE, FAMILY_COLORS, _figure, _save
 
-__all__ = ["OKABE_ITO", "FAMILY_COLORS", "ROLE_STYLES", "qc_figure", "summary_figure", "map_figure",
-           "vertical_exaggeration"]
+__all__ = ["summary_figure", "map_figure"]
 
 logger = logging.getLogger(__name__)
 
@@ -53,7 +50,7 @@ def summary_figure(rows, path, *, title="Margins of this run"):
     Parameters
     ----------
     rows : list of dict
-        Rows of the margins table (:func:`clinometry.report.files.margin_rows`).
+        Rows of the margins table (:func:`clinometry.report.tables.margin_rows`).
     path : str or os.PathLike
         Output PNG.
     title : str

@@ -1,4 +1,4 @@
-"""Tests of clinometry.report.files: atomic writes, safe names, margins/errors tables."""
+"""Tests of clinometry.report.atomic and .tables: atomic writes, safe names, margins/errors/horizons tables."""
 
 import csv
 import io
@@ -7,13 +7,12 @@ import os
 import numpy as np
 import pytest
 
-from clinometry.report import files
-from clinometry.report.files import (
+from clinometry.report import atomic
+from clinometry.report.atomic import atomic_write, safe_name
+from clinometry.report.tables import (
     ERROR_COLUMNS,
     MARGIN_COLUMNS,
-    atomic_write,
     margin_rows,
-    safe_name,
     write_errors_csv,
     write_margins_csv,
     write_margins_parquet,
@@ -61,7 +60,7 @@ def test_atomic_write_failure_keeps_old_file_and_leaves_no_temp(tmp_path, monkey
     def broken_replace(src, dst):
         raise OSError("disk full (simulated)")
 
-    monkeypatch.setattr(files.os, "replace", broken_replace)
+    monkeypatch.setattr(atomic.os, "replace", broken_replace)
     with pytest.raises(OSError, match="disk full"):
         atomic_write(target, "new content that never lands")
     # a reader sees the old file whole, and no temp file is left behind
@@ -143,7 +142,7 @@ def test_margins_parquet_matches_csv_rows(tmp_path):
 def test_csv_text_is_the_text_of_the_standard_csv_writer():
     # reference: Python's csv module (minimal quoting, "\n" line ends), row
     # by row, as csv_text wrote before it formatted column by column
-    from clinometry.report.files import _cell, csv_text
+    from clinometry.report.tables import _cell, csv_text
 
     def reference(rows, columns):
         buf = io.StringIO()
@@ -172,3 +171,27 @@ def test_csv_text_is_the_text_of_the_standard_csv_writer():
     ]
     for rows, columns in cases:
         assert csv_text(rows, columns) == reference(rows, columns)
+
+
+def test_horizon_rows_take_their_depths_from_the_result():
+    # two horizons on a TWT section at 2500 m/s: depth = v t / 2 (Sheriff & Geldart 1995,
+    # from memory), so 400 ms -> 500 m and 404 ms -> 505 m; the table holds what the result
+    # holds, and no depth (empty cell) for a result without depths (re-read from JSON)
+    from clinometry.metrics import Metrics
+    from clinometry.picking.picks import Horizon, Picks
+    from clinometry.result import Result
+    from clinometry.section import make_section
+    from clinometry.report.tables import HORIZON_COLUMNS, csv_text, horizon_rows
+
+    sec = make_section(np.zeros((4, 300), np.float32), z=np.arange(300) * 2.0, trace_spacing_m=12.5,
+                       x=100.0 + 12.5 * np.arange(4), y=np.full(4, 50.0))
+    picks = Picks(horizons=(Horizon(3, "reflector", np.array([1, 2]), np.array([400.0, 404.0]), np.array([1.0, 0.25])),
+                            Horizon(5, "clinoform", np.array([], int), np.array([]), np.array([]))))
+    res = Result(source={}, velocity={}, picks=picks, metrics=Metrics(),
+                 horizon_depths_m=(np.array([500.0, 505.0]), np.zeros(0)))
+    rows = horizon_rows(res, sec)
+    assert [(r["horizon_id"], r["trace"], r["distance_m"], r["x"], r["y"], r["z"], r["depth_m"], r["quality"])
+            for r in rows] == [(3, 1, 12.5, 112.5, 50.0, 400.0, 500.0, 1.0), (3, 2, 25.0, 125.0, 50.0, 404.0, 505.0, 0.25)]
+    bare = Result(source={}, velocity={}, picks=picks, metrics=Metrics())
+    text = csv_text(horizon_rows(bare, sec), HORIZON_COLUMNS)
+    assert text.splitlines()[1] == "3,reflector,1,12.5,112.5,50.0,400.0,,1.0"

@@ -9,7 +9,7 @@ import numpy.testing as npt
 import pytest
 
 from clinometry.errors import HorizonFileError
-from clinometry.pipeline import read_horizon_csv
+from clinometry.user_horizons import read_horizon_csv
 from clinometry.section import make_section
 
 N_TRACE = 40

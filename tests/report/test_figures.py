@@ -4,7 +4,7 @@ import numpy as np
 import pytest
 
 from clinometry.picking.picks import Horizon, Picks
-from clinometry.report.plots import (
+from clinometry.report.figures import (
     FAMILY_COLORS,
     OKABE_ITO,
     map_figure,

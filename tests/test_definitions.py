@@ -1,0 +1,105 @@
+"""The definitions that truth and measurement share live in one module, and both use it.
+
+``clinometry.definitions`` holds the base of the maximum-slope secant, the
+Theil-Sen line through the shelf breaks and the tolerance of the flat
+trajectory class.  The metrics (``clinometry.metrics``) and the forward
+model's ground truth (``clinometry.synth.truth``) must read them from there,
+not from copies: these tests pin the objects by identity, check that no other
+module of the package defines them again, and check the values against
+hand-worked examples and the reference library (SciPy).
+"""
+
+import ast
+from pathlib import Path
+
+import numpy as np
+import pytest
+
+from clinometry import definitions
+
+PKG = Path(definitions.__file__).resolve().parent
+SHARED_NAMES = ("SLOPE_BASE_MIN_M", "BASE_LENGTH_TRACES", "SLOPE_PRECISION_FRACTION", "SLOPE_QUANTUM_DEG",
+                "TRAJECTORY_FLAT_DEG")
+
+
+def test_metrics_and_truth_use_the_shared_objects():
+    from clinometry.metrics import slope, trajectory
+    from clinometry.synth import truth
+
+    assert slope.slope_base_length_m is definitions.slope_base_length_m
+    assert truth.slope_base_length_m is definitions.slope_base_length_m
+    assert trajectory.theil_sen_line is definitions.theil_sen_line
+    assert truth.theil_sen_line is definitions.theil_sen_line
+    assert truth.BASE_LENGTH_M is definitions.SLOPE_BASE_MIN_M
+    assert truth.TRAJECTORY_FLAT_DEG is trajectory.TRAJECTORY_FLAT_DEG is definitions.TRAJECTORY_FLAT_DEG
+
+
+def test_flat_tolerance_defaults_all_read_the_shared_value():
+    import inspect
+
+    from clinometry.classify.thresholds import DEFAULT_THRESHOLDS
+    from clinometry.metrics.trajectory import trajectory_from_breaks, trajectory_metrics
+    from clinometry.synth.truth import trajectory
+
+    flat = definitions.TRAJECTORY_FLAT_DEG
+    assert DEFAULT_THRESHOLDS["trajectory_flat_deg"].value == flat
+    for func in (trajectory_metrics, trajectory_from_breaks, trajectory):
+        assert inspect.signature(func).parameters["flat_deg"].default == flat, func.__name__
+
+
+def _assigned_names(path):
+    tree = ast.parse(path.read_text())
+    for node in ast.walk(tree):
+        if isinstance(node, (ast.Assign, ast.AnnAssign)):
+            targets = node.targets if isinstance(node, ast.Assign) else [node.target]
+            for t in targets:
+                if isinstance(t, ast.Name):
+                    yield t.id
+        elif isinstance(node, ast.FunctionDef):
+            yield node.name
+
+
+@pytest.mark.parametrize("path", sorted(p for p in PKG.rglob("*.py") if p.name != "definitions.py"),
+                         ids=lambda p: str(p.relative_to(PKG)))
+def test_no_other_module_defines_them_again(path):
+    names = set(_assigned_names(path))
+    again = names & (set(SHARED_NAMES) | {"slope_base_length_m", "slope_base_m", "theil_sen_line"})
+    assert not again, f"{path.relative_to(PKG)} defines {sorted(again)} again; import them from clinometry.definitions"
+    # the Theil-Sen estimator is imported (and so called) in one place only
+    tree = ast.parse(path.read_text())
+    imported = {a.name for n in ast.walk(tree) if isinstance(n, ast.ImportFrom) for a in n.names}
+    assert "theilslopes" not in imported, f"{path.relative_to(PKG)} fits its own Theil-Sen line"
+
+
+@pytest.mark.parametrize("spacing_m,dsample_m,slope_deg,expected_m", [
+    (12.5, 2.5, 20.0, 150.0),                                      # the 150 m floor
+    (12.5, 2.5, 0.8, 2.5 / (0.1 * np.tan(np.radians(0.8)))),        # 1790.4 m, the precision term
+    (50.0, 1.0, 10.0, 200.0),                                      # four trace spacings
+])
+def test_slope_base_worked_examples(spacing_m, dsample_m, slope_deg, expected_m):
+    # L = max(150 m, 4 traces, dz / (0.1 tan(mean slope))) (worked by hand; the 150 m, 4 traces
+    # and 10 % are project choices, common practice, no source)
+    got = definitions.slope_base_length_m(spacing_m, dsample_m, np.tan(np.radians(slope_deg)))
+    assert got == pytest.approx(expected_m)
+
+
+def test_slope_base_without_mean_slope_or_depth_sample():
+    # no mean gradient: one depth sample over the base is a 1 deg slope, 4 / tan(1 deg) = 229.2 m
+    # (trigonometry); no depth sample: only the floor and the trace term
+    assert definitions.slope_base_length_m(25.0, 4.0, None) == pytest.approx(4.0 / np.tan(np.radians(1.0)))
+    assert definitions.slope_base_length_m(25.0, None, 0.01) == 150.0
+    assert definitions.slope_base_length_m(25.0, None, None, min_base_m=500.0) == 500.0
+
+
+def test_theil_sen_line_matches_scipy_and_a_hand_example():
+    from scipy.stats import theilslopes
+
+    rng = np.random.default_rng(7)
+    x = np.sort(rng.uniform(0.0, 3000.0, 9))
+    y = 200.0 - 0.02 * x + rng.normal(0.0, 3.0, 9)
+    slope, icpt = definitions.theil_sen_line(x, y)
+    ref = theilslopes(y, x)  # SciPy's implementation of Theil (1950) / Sen (1968)
+    assert (slope, icpt) == (float(ref[0]), float(ref[1]))
+    # four points on y = 1 + 0.5 x and one wild point: the median of the ten pairwise slopes
+    # is 0.5 (worked by hand)
+    assert definitions.theil_sen_line([0, 1, 2, 3, 4], [1.0, 1.5, 2.0, 2.5, -9.0])[0] == 0.5
