@@ -28,7 +28,7 @@ from .evidence.record import Evidence
 from .evidence.terminations import onlap
 from .evidence.tops import platform_top
 from .evidence._regions import break_trace, face_traces, toe_trace
-from .vetting import vet
+from .vetting import concentrated_relief, vet, vet_against
 
 __all__ = ["Assessed", "assess", "choose_margins", "WEIGHTS", "EDGE_FACTOR", "DEFAULT_MIN_CONFIDENCE"]
 
@@ -89,6 +89,9 @@ def assess(images, c: Candidate) -> Assessed:
     gate_relief = relief if c.bends.shelf_break is not None and c.bends.toe is not None else c.bends.leg.relief_m
     rejected = vet(ev, slope_max_deg=c.bends.slope_max_deg, relief_m=gate_relief, min_relief_m=images.min_relief_m,
                    n_slope_traces=int(face_traces(c).size) - 1, has_break=c.bends.shelf_break is not None)
+    step = concentrated_relief(c, images)
+    if step:
+        rejected.append(step)
     conf = sum(WEIGHTS[k] * ev[k].score for k in WEIGHTS) / sum(WEIGHTS.values())
     edge = _edge(images, c)
     if edge:
@@ -124,6 +127,10 @@ def choose_margins(images, assessed, *, min_confidence: float = DEFAULT_MIN_CONF
             continue
         lo, hi = _span(a, images)
         if any(k.direction == a.direction and min(hi, _span(k, images)[1]) > max(lo, _span(k, images)[0]) for k in kept):
+            continue
+        why = vet_against(c, kept, images)
+        if why:
+            logger.debug("%s dropped: %s", where, why)
             continue
         if a.confidence < min_confidence:
             notes.append(f"{where} left out: confidence {a.confidence:.2f} below {min_confidence:.2f}")

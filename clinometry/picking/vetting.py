@@ -16,12 +16,24 @@ guard against:
   and below (drape or compaction over older relief, a fold);
 * :func:`too_small`: relief below the seismic resolution;
 * :func:`jitter`: a slope narrower than the lateral resolution of the
-  picks (pick jitter, a single-trace step).
+  picks (pick jitter, a single-trace step);
+* :func:`concentrated_relief`: a "ramp" whose relief is mostly one step (the
+  step is judged as a slope of its own).
+
+Two rules compare a candidate with a margin already accepted:
+
+* :func:`inside_platform`: a slope beneath the platform top (an older
+  clinoform or an internal reflector) or beneath the basin floor (the
+  substrate) of an accepted margin;
+* :func:`above_margin`: a smaller bend above an accepted margin's profile
+  (basin fill dipping back towards the slope, drape or compaction over it).
 """
 
 from __future__ import annotations
 
 import math
+
+import numpy as np
 
 __all__ = [
     "noise_reflection",
@@ -30,7 +42,11 @@ __all__ = [
     "drape",
     "too_small",
     "jitter",
+    "concentrated_relief",
+    "inside_platform",
+    "above_margin",
     "vet",
+    "vet_against",
     "NOISE_LEVELS",
 ]
 
@@ -54,7 +70,13 @@ STAIRCASE_LAYERING = 0.85
 DRAPE_MAX_DISCORDANT = 0.25
 #: ... read on at least this many coherent cells
 DRAPE_MIN_CELLS = 10
-#: a slope spans at least this many traces (a narrower step is one jump of the
+#: a ramp's relief is spread along it: no single smoothing length holds more
+#: than this share of it (our choice, no source)
+RAMP_STEP_SHARE = 0.5
+#: a candidate lies beneath or above a margin's profile when its slope is
+#: at least this many dominant periods away from it (one wavelet lobe)
+SEPARATION_PERIODS = 0.5
+#: a slope that spans at least this many traces (a narrower step is one jump of the
 #: picks; common practice, no source)
 MIN_SLOPE_TRACES = 2
 
@@ -143,6 +165,81 @@ def jitter(n_slope_traces):
     return None
 
 
+def concentrated_relief(c, images):
+    """A profile without a distinct break (a ramp reading) whose relief is mostly one step.
+
+    Guards against reading a jump of the picks between two reflectors,
+    smoothed over the width of a ramp, as a gentle ramp: the relief of a
+    ramp accrues over kilometres, a step's within a wavelength.
+    """
+    if c.bends.shelf_break is not None:
+        return None
+    w = max(1, int(round(images.smoothing_m / images.dx_m)))
+    a, b = c.at(c.bends.leg.start), c.at(c.bends.leg.end)
+    d = c.depth_m[a : b + 1]
+    if d.size <= w:
+        return None
+    step = float(np.max(np.abs(d[w:] - d[:-w])))
+    rel = c.bends.leg.relief_m
+    if rel > 0 and step > RAMP_STEP_SHARE * rel:
+        return (f"{100 * step / rel:.0f}% of the relief lies within {w * images.dx_m:.0f} m: a step between "
+                "reflectors, not a ramp")
+    return None
+
+
+def _z_at(c, trace):
+    return float(c.z_index[c.at(trace)]) if c.lo <= trace < c.hi else float("nan")
+
+
+def inside_platform(c, margin, images):
+    """A slope beneath an accepted margin's platform top or basin floor.
+
+    Guards against reporting older clinoforms, internal reflectors of the
+    platform, or tilted substrate beneath the basin floor as margins of
+    their own: they lie under the outer profile of a margin (the youngest
+    clinoform and the surface the basin fill laps onto).  Older clinoforms
+    are followed as such (:mod:`~clinometry.picking.clinoforms`).
+    """
+    from .evidence._regions import profile_extent
+
+    m = margin.candidate
+    t = c.bends.steepest
+    first, last = profile_extent(m, images)
+    if not first <= t <= last:
+        return None
+    zm = _z_at(m, t)
+    zc = float(c.z_index[c.at(t)])
+    if zc - zm >= SEPARATION_PERIODS * images.period_samples:
+        brk = margin.candidate.bends.shelf_break
+        brk = brk if brk is not None else margin.candidate.bends.outer_break
+        return (f"lies beneath the profile of the margin facing {m.direction} with its break at trace {brk} "
+                "(an older clinoform, an internal reflector or the substrate)")
+    return None
+
+
+def above_margin(c, margin, images):
+    """A smaller bend above an accepted margin's profile: fill or drape, not a margin.
+
+    Guards against basin fill that dips back towards the slope above the
+    toe, fill wedges onlapping the slope, and drape or compaction relief
+    over a margin or a mound: each bends over the margin beneath, with less
+    relief.
+    """
+    from .evidence._regions import profile_extent
+
+    m = margin.candidate
+    t = c.bends.steepest
+    first, last = profile_extent(m, images)
+    if not first <= t <= last:
+        return None
+    zm = _z_at(m, t)
+    zc = float(c.z_index[c.at(t)])
+    if zm - zc >= SEPARATION_PERIODS * images.period_samples and c.bends.leg.relief_m < margin.candidate.bends.leg.relief_m:
+        return (f"lies above the profile of the margin facing {m.direction} at trace {m.bends.steepest} with less "
+                "relief: basin fill or drape over it, not a margin")
+    return None
+
+
 def vet(evidence: dict, *, slope_max_deg, relief_m, min_relief_m, n_slope_traces, has_break) -> list[str]:
     """Every rule's reason against a candidate (empty when none applies)."""
     top, face, onl, char = (evidence[k] for k in ("platform_top", "slope_face", "onlap", "character"))
@@ -155,3 +252,12 @@ def vet(evidence: dict, *, slope_max_deg, relief_m, min_relief_m, n_slope_traces
         jitter(n_slope_traces) if has_break else None,
     ]
     return [r for r in reasons if r]
+
+
+def vet_against(c, margins, images) -> str | None:
+    """The first reason a candidate is not a margin of its own, given the margins already accepted."""
+    for m in margins:
+        why = inside_platform(c, m, images) or above_margin(c, m, images)
+        if why:
+            return why
+    return None
