@@ -378,6 +378,9 @@ class Candidate:
         Trace indices relative to the whole line.
     source_rank : int
         Rank of the tracked surface on which the candidate was first seen.
+    polarity : str
+        ``"peak"``, ``"trough"`` or ``"unknown"``: the wavelet lobe the
+        profile follows.
     """
 
     direction: str
@@ -389,6 +392,7 @@ class Candidate:
     support: np.ndarray
     bends: Bends
     source_rank: int
+    polarity: str = "unknown"
 
     def at(self, trace):
         """Index into the window arrays of a trace index of the line."""
@@ -494,7 +498,7 @@ def _reextract(images, s, leg, b0):
     q[images.dead[lo:hi]] = 0.0
     sup[images.dead[lo:hi]] = 0.0
     return Candidate(direction=leg.direction, lo=lo, hi=hi, z_index=zi.astype(float), depth_m=dep,
-                     quality=q, support=sup, bends=_shift(bw, lo), source_rank=s.rank)
+                     quality=q, support=sup, bends=_shift(bw, lo), source_rank=s.rank, polarity=s.polarity)
 
 
 def _shift(b: Bends, lo: int) -> Bends:

@@ -87,7 +87,7 @@ def assess(images, c: Candidate) -> Assessed:
     relief = float(c.depth_m[c.at(t)] - c.depth_m[c.at(b)])
     # without a distinct break (a ramp) the relief is that of the whole leg
     gate_relief = relief if c.bends.shelf_break is not None and c.bends.toe is not None else c.bends.leg.relief_m
-    rejected = vet(ev, slope_max_deg=c.bends.slope_max_deg, relief_m=gate_relief, min_relief_m=images.min_relief_m,
+    rejected = vet(ev, images, slope_max_deg=c.bends.slope_max_deg, relief_m=gate_relief, min_relief_m=images.min_relief_m,
                    n_slope_traces=int(face_traces(c).size) - 1, has_break=c.bends.shelf_break is not None)
     step = concentrated_relief(c, images)
     if step:

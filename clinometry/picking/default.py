@@ -35,7 +35,7 @@ from .clinoforms import older_clinoforms
 from .decide import DEFAULT_MIN_CONFIDENCE, assess, choose_margins, rejection_notes
 from .evidence._regions import top_traces
 from .picks import ClinoformPicks, Horizon, MarginPicks, PickPoint, Picks
-from .section_images import prepare
+from .section_images import band_limited, prepare
 from .tracking import track_surfaces
 
 __all__ = ["pick_default", "DEFAULT_MIN_CONFIDENCE"]
@@ -139,9 +139,14 @@ def pick_default(
     check_section(section)
     images = prepare(section, velocity, smoothing_m=smoothing_m, min_relief_m=min_relief_m)
     notes = list(images.notes)
-    surfaces = track_surfaces(images.envelope, images.positive, images.cost, period_samples=images.period_samples,
-                              n_surfaces=n_surfaces, dead=images.dead)
-    candidates = propose_candidates(images, surfaces)
+    unfit = band_limited(images)
+    if unfit:
+        notes.append(unfit)
+        surfaces, candidates = [], []
+    else:
+        surfaces = track_surfaces(images.envelope, images.positive, images.cost, period_samples=images.period_samples,
+                                  n_surfaces=n_surfaces, dead=images.dead)
+        candidates = propose_candidates(images, surfaces)
     assessed = [assess(images, c) for c in candidates]
     chosen = choose_margins(images, assessed, min_confidence=min_confidence, notes=notes)
     notes.extend(rejection_notes(assessed, chosen, images))

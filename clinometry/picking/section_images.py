@@ -32,7 +32,8 @@ from .condition import condition, envelope_in_place
 from .orientation import reflector_orientation
 from .tracking import CostImage, cost_image
 
-__all__ = ["SectionImages", "prepare", "velocity_model", "MIN_RELIEF_WAVELENGTHS", "MIN_RELIEF_FLOOR_M"]
+__all__ = ["SectionImages", "prepare", "velocity_model", "band_limited", "MIN_RELIEF_WAVELENGTHS", "MIN_RELIEF_FLOOR_M",
+           "MIN_PERIOD_SAMPLES"]
 
 logger = logging.getLogger(__name__)
 
@@ -41,6 +42,11 @@ logger = logging.getLogger(__name__)
 MIN_RELIEF_WAVELENGTHS = 0.5
 #: and never below this, m (common practice, no source)
 MIN_RELIEF_FLOOR_M = 10.0
+#: a section whose dominant period is shorter than this many samples is not
+#: band-limited seismic (white noise, or energy near the Nyquist frequency):
+#: recorded seismic keeps its dominant frequency well below the anti-alias
+#: filter, i.e. several samples per period (common practice, no source)
+MIN_PERIOD_SAMPLES = 4.0
 #: structure-tensor window along the line, traces (a few traces: the lateral
 #: smear of a migrated wavelet; common practice, no source)
 TENSOR_SIGMA_TRACES = 1.5
@@ -147,6 +153,19 @@ def _vertical_m(section, velocity, z, dz, dx):
         return np.full(z.size, dz / dx)
     v = np.broadcast_to(np.asarray(velocity.interval_velocity(z), dtype=float), z.shape)
     return v * dz / 2000.0 / dx
+
+
+def band_limited(images) -> str | None:
+    """Why a section is not band-limited seismic that margins can be picked on, or None.
+
+    A dominant period of fewer than :data:`MIN_PERIOD_SAMPLES` samples means
+    white noise or energy near the Nyquist frequency, not reflections.
+    """
+    if images.period_samples < MIN_PERIOD_SAMPLES:
+        return (f"the dominant period is {images.period_samples:.1f} samples (fewer than {MIN_PERIOD_SAMPLES:g}): "
+                "the section is not band-limited seismic (white noise or energy near the Nyquist frequency); "
+                "no margin picked")
+    return None
 
 
 def prepare(section, velocity, *, smoothing_m=None, min_relief_m=None) -> SectionImages:

@@ -37,8 +37,11 @@ import numpy as np
 
 __all__ = [
     "noise_reflection",
+    "no_platform_top",
     "regional_dip",
     "staircase",
+    "cuts_layering",
+    "implausible_slope",
     "drape",
     "too_small",
     "jitter",
@@ -47,15 +50,25 @@ __all__ = [
     "above_margin",
     "vet",
     "vet_against",
-    "NOISE_LEVELS",
+    "NOISE_CORRELATION",
 ]
 
-#: (noise level, clear-reflection level) of the platform top's mean strength
-#: above the background (0..1), share of picks with one polarity (about half
-#: at random) and structure-tensor coherence (about 0.3 for isotropic noise
-#: with the picker's tensor window); measured on white-noise images of our
-#: own, the levels are our choice, no source
-NOISE_LEVELS = {"strength": (0.35, 0.65), "polarity": (0.6, 0.9), "coherence": (0.3, 0.7)}
+#: the correlation of neighbouring traces along a reflection at which its
+#: signal and the noise are equally strong: rho = S / (S + N) = 1/2
+NOISE_CORRELATION = 0.5
+#: readings of the reflection dip along the slope needed to say it cuts
+#: layering, the agreement below which and the flat share above which it does
+#: (our choice, no source)
+MIN_DIP_READINGS = 5
+CUTS_AGREEMENT = 0.25
+CUTS_FLAT_SHARE = 0.5
+#: steepest slope of a margin, degrees: above the ~60 deg of framework-built
+#: carbonate slopes (Kenter 1990, from memory) with room for the slope error
+MAX_SLOPE_DEG = 70.0
+#: a platform top is at least this many traces and dominant wavelengths long
+#: (a narrower top is not resolved laterally; our choice, no source)
+MIN_TOP_TRACES = 10
+MIN_TOP_WAVELENGTHS = 2.0
 #: the top is flatter than the slope when its gradient is below this fraction
 #: of the steepest slope (common practice, no source)
 TOP_FLATNESS_FRACTION = 0.5
@@ -81,10 +94,6 @@ SEPARATION_PERIODS = 0.5
 MIN_SLOPE_TRACES = 2
 
 
-def _ramp(v, lo, hi):
-    return min(1.0, max(0.0, (v - lo) / (hi - lo)))
-
-
 def _v(ev, key, default=math.nan):
     v = ev.values.get(key, default)
     return default if v is None else float(v)
@@ -94,19 +103,32 @@ def noise_reflection(top):
     """A platform top that does not stand out of the noise.
 
     Guards against margins picked in noise: the minimal path through a noise
-    image still finds a strongest route, but its strength barely exceeds the
-    background, its polarity flips at random and its reflections are not
-    coherent.  Each of the three is scored 0 at its noise level and 1 at
-    that of a clear reflection (:data:`NOISE_LEVELS`); the top is noise
-    when their mean is below one half, so one weak measure (a polarity
-    that flips on a fifth of the traces at low SNR) does not reject a real
-    top.
+    image still finds a strongest route, but the waveform at its picks does
+    not repeat from one trace to the next.  For a reflection with
+    independent noise on each trace the correlation of neighbouring traces is
+    ``rho = S / (S + N)`` (signal and noise power; e.g. Yilmaz 2001, from
+    memory), so a correlation below :data:`NOISE_CORRELATION` means the noise
+    at the top is stronger than the reflection.
     """
-    s, p, c = _v(top, "strength", 0.0), _v(top, "polarity", 0.5), _v(top, "coherence", 0.0)
-    terms = [_ramp(v, *NOISE_LEVELS[k]) for k, v in (("strength", s), ("polarity", p), ("coherence", c))]
-    if sum(terms) / 3.0 < 0.5:
-        return (f"the platform top is not a reflection above the noise (strength {s:.2f}, polarity kept on "
-                f"{100 * p:.0f}% of traces, coherence {c:.2f})")
+    rho = _v(top, "lateral_correlation")
+    if not rho >= NOISE_CORRELATION:
+        return (f"the platform top is not a reflection above the noise: its waveform correlates at {rho:.2f} "
+                f"from trace to trace (a reflection stronger than the noise gives {NOISE_CORRELATION} or more)")
+    return None
+
+
+def no_platform_top(top, images):
+    """No platform top, or one too short to be resolved as a flat top.
+
+    Guards against bends of a surface at the edge of the image or between
+    two nearby slopes: a platform top extends at least
+    :data:`MIN_TOP_TRACES` traces and :data:`MIN_TOP_WAVELENGTHS` dominant
+    wavelengths landward of its break (beyond the bend's own smoothing).
+    """
+    length = _v(top, "length_m", 0.0)
+    need = max(MIN_TOP_TRACES * images.dx_m, MIN_TOP_WAVELENGTHS * images.wavelength_m)
+    if length < need:
+        return f"the platform top is {length:.0f} m long landward of the break (at least {need:.0f} m needed)"
     return None
 
 
@@ -134,6 +156,34 @@ def staircase(face, character):
     if math.isfinite(same) and same >= STAIRCASE_LAYERING:
         return (f"the layering continues across the slope at the same level (correlation {same:.2f}): "
                 "a step between reflectors, not a margin")
+    return None
+
+
+def cuts_layering(face):
+    """A profile that dips across reflections that are flat where it crosses them.
+
+    Guards against a surface that steps down through a layered succession:
+    where its dip can be read (not aliased, coherent), the reflections along
+    a real slope dip with it (a slope is a stratal surface).
+    """
+    n, agree, flat = _v(face, "n_dip", 0.0), _v(face, "agreement"), _v(face, "flat_share")
+    if n >= MIN_DIP_READINGS and agree < CUTS_AGREEMENT and flat >= CUTS_FLAT_SHARE:
+        return (f"the reflections along the slope are flat where it crosses them ({100 * flat:.0f}% of {n:.0f} "
+                "readings): the profile cuts across layering, it is not a slope")
+    return None
+
+
+def implausible_slope(slope_max_deg):
+    """A slope steeper than depositional slopes stand.
+
+    Guards against vertical offsets of reflectors (faults, jumps of the picks
+    over a trace or two): carbonate slopes reach about 60 deg where built by
+    framework or cement (Kenter 1990, from memory); steeper faces are not
+    imaged as slopes at seismic scale.
+    """
+    if slope_max_deg > MAX_SLOPE_DEG:
+        return (f"the slope dips {slope_max_deg:.0f} deg, steeper than the {MAX_SLOPE_DEG:.0f} deg carbonate slopes "
+                "stand at: a fault or a jump of the picks, not a slope")
     return None
 
 
@@ -240,14 +290,17 @@ def above_margin(c, margin, images):
     return None
 
 
-def vet(evidence: dict, *, slope_max_deg, relief_m, min_relief_m, n_slope_traces, has_break) -> list[str]:
+def vet(evidence: dict, images, *, slope_max_deg, relief_m, min_relief_m, n_slope_traces, has_break) -> list[str]:
     """Every rule's reason against a candidate (empty when none applies)."""
     top, face, onl, char = (evidence[k] for k in ("platform_top", "slope_face", "onlap", "character"))
     reasons = [
         noise_reflection(top),
+        no_platform_top(top, images),
         regional_dip(top, slope_max_deg),
         staircase(face, char),
-        None,  # drape(onl): to be judged on a forward model with drape
+        cuts_layering(face),
+        implausible_slope(slope_max_deg),
+        drape(onl),
         too_small(relief_m, min_relief_m),
         jitter(n_slope_traces) if has_break else None,
     ]

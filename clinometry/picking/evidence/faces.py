@@ -36,27 +36,33 @@ DIP_TOLERANCE = 0.5
 #: a cell of a vertical run is in a gap when its strength is below this
 #: fraction of the face's median strength (our choice, no source)
 GAP_FRACTION = 0.5
+#: profile dips below this (samples per trace) are not compared with the
+#: reflection dip: a ramp's dip is within the tensor's error (our choice)
+MIN_READABLE_DIP = 0.3
 #: structure-tensor coherence above which a dip is read (our choice, no source)
 MIN_COHERENCE = 0.5
 
 
-def _path_dip(z_index):
-    g = np.gradient(np.asarray(z_index, dtype=float))
-    return g
+def _path_dip(c):
+    """Apparent dip of the profile (samples per trace), lightly smoothed (half the bend scale)."""
+    from ..candidates import smooth_profile
+
+    return np.gradient(smooth_profile(c.z_index, max(1.0, 0.5 * c.bends.sigma_traces)))
 
 
 def _run_gaps(images, c, traces):
     """Share of the cells of the vertical runs between neighbouring picks that lie in a gap of the reflection.
 
     A run joins the pick at trace ``i - 1`` to the pick at trace ``i``; a
-    cell of it is on the reflection when either trace's envelope there
-    reaches :data:`GAP_FRACTION` of the face's own typical strength (the
-    median at its picks).  A slope face is often much weaker than the
-    platform top (its impedance contrast fades downslope), but it is
-    continuous; a jump between reflectors crosses the near-empty image
-    between them.
+    cell of it is on the reflection when either trace's strength there, of
+    the profile's own polarity, reaches :data:`GAP_FRACTION` of the face's
+    typical strength (the median at its picks).  A slope face is often much
+    weaker than the platform top (its impedance contrast fades downslope),
+    but it is continuous and stays on its own wavelet lobe, which the
+    migrated image stretches along the trace; a jump between reflectors
+    crosses the weak image between them, or layers of both polarities.
     """
-    strength = 1.0 - images.cost.cost
+    strength = 1.0 - images.cost.with_polarity(c.polarity).cost
     cells = images.cells(c.z_index)
     k = np.asarray(traces) - c.lo
     k = k[k > 0]
@@ -90,7 +96,7 @@ def slope_face(images, c) -> Evidence:
     tr = face_traces(c)
     k = c.at(tr)
     zi = c.z_index[k]
-    pdip = _path_dip(c.z_index)[k]
+    pdip = _path_dip(c)[k]
     sup = c.support[k]
     zc = np.clip(np.rint(zi).astype(np.int64), 0, images.n_z - 1)
     rdip = images.dip[tr, zc].astype(float)
@@ -98,7 +104,7 @@ def slope_face(images, c) -> Evidence:
     sgn = 1.0 if c.direction == "+" else -1.0
     steep = sgn * pdip > 0.5 * np.max(sgn * pdip) if pdip.size else pdip > 0
     aliased = np.abs(pdip) > ALIASED_PERIODS * images.period_samples
-    readable = steep & ~aliased & (coh >= MIN_COHERENCE)
+    readable = steep & ~aliased & (coh >= MIN_COHERENCE) & (np.abs(pdip) >= MIN_READABLE_DIP)
     w = coh[readable]
     if w.size:
         agree = np.abs(rdip[readable] - pdip[readable]) <= DIP_TOLERANCE * np.abs(pdip[readable])

@@ -3,10 +3,10 @@
 The fill of the basin in front of a margin laps onto its slope: its
 reflections are flatter than the slope and end against it (onlap; Mitchum,
 Vail & Sangree 1977).  A surface that only bends over older relief (drape,
-compaction over a mound, a fold) has reflections above it that run parallel
-to it.  So the dips of coherent reflections in a band just above the slope
-(beyond the slope's own wavelet: half to one and a half periods above it)
-tell onlap (discordant) from drape (concordant).
+compaction over a mound, a fold) has the reflections of the layers above it
+running parallel to it.  So the dips of coherent reflections in the fill,
+one to two periods off the slope along its normal, tell onlap (discordant)
+from drape (concordant).
 
 References
 ----------
@@ -21,35 +21,81 @@ from __future__ import annotations
 import numpy as np
 
 from ._regions import face_traces
-from .faces import ALIASED_PERIODS, MIN_COHERENCE
+from .faces import MIN_COHERENCE
+from .tops import MIN_STRENGTH
 from .record import NEUTRAL, Evidence
 
-__all__ = ["onlap", "BAND_PERIODS"]
+__all__ = ["onlap", "OFFSET_PERIODS", "MIN_DIP_SAMPLES"]
 
-#: the band above (and below) the slope, in dominant periods from the pick
-BAND_PERIODS = (0.5, 1.5)
+#: the reflections off the slope are read this many dominant periods from it
+#: along its normal (beyond its own wavelet and side lobes, which reach
+#: about 0.7 period for a Ricker wavelet; our choice, no source)
+OFFSET_PERIODS = (1.0, 1.5, 2.0)
+#: slopes dipping less than this (samples per trace) are not compared (our choice)
+MIN_DIP_SAMPLES = 0.3
+#: fewest coherent cells for a reading
+MIN_CELLS = 5
 #: a reflection is discordant when its dip differs from the slope's by more
 #: than this fraction of the slope's dip (our choice, no source)
 DISCORDANT_FRACTION = 0.5
 
 
-def _band(images, c, traces, side):
+def _beside(images, c, traces, side):
+    """Dip, coherence and the slope's own dip at cells off the slope, along its normal.
+
+    From each slope pick the cells at :data:`OFFSET_PERIODS` dominant
+    periods (in depth, along the normal to the slope) off it: into the
+    fill (``side = -1``, above the slope and basinward) or into the platform
+    (``side = +1``, below and landward).  Along the normal, whatever the
+    slope's dip, the samples clear the slope's own wavelet and its side
+    lobes, which would otherwise read as reflections parallel to it.
+    """
     k = c.at(traces)
     zp = c.z_index[k]
-    pdip = np.gradient(c.z_index)[k]
-    a, b = BAND_PERIODS
-    offs = np.linspace(a, b, 5) * images.period_samples
-    zz = zp[:, None] + side * offs[None, :]
-    ok = (zz >= 0) & (zz <= images.n_z - 1)
-    tr = np.broadcast_to(traces[:, None], zz.shape)[ok]
-    zc = np.rint(zz[ok]).astype(np.int64)
-    pd = np.broadcast_to(pdip[:, None], zz.shape)[ok]
-    return images.dip[tr, zc].astype(float), images.coherence[tr, zc].astype(float), pd
+    pd = np.full(k.size, _slope_dip(c, traces))
+    sgn = 1.0 if c.direction == "+" else -1.0
+    strength = 1.0 - images.cost.cost
+    vm = images.vertical_m[np.clip(np.rint(zp).astype(np.int64), 0, images.n_z - 1)]  # m per sample / dx
+    g = np.abs(pd) * vm  # true gradient (m/m)
+    theta = np.arctan(g)
+    if images.section.attrs["domain"] == "depth":
+        period_m = images.period_samples * images.vertical_m[0] * images.dx_m
+    else:
+        period_m = 0.5 * images.wavelength_m
+    rd, co, pp = [], [], []
+    for off in OFFSET_PERIODS:
+        dist = off * period_m
+        # the normal into the fill points up and basinward (side -1)
+        dx_tr = -side * sgn * dist * np.sin(theta) / images.dx_m
+        dz_s = side * dist * np.cos(theta) / (vm * images.dx_m)
+        t2 = np.rint(traces + dx_tr).astype(np.int64)
+        z2 = np.rint(zp + dz_s).astype(np.int64)
+        ok = (t2 >= 0) & (t2 < images.n_trace) & (z2 >= 0) & (z2 < images.n_z)
+        if not ok.any():
+            continue
+        t2, z2 = t2[ok], z2[ok]
+        # a reflection, not the faint ringing of a wavelet: strength counts
+        on = strength[t2, images.cells(z2)] >= MIN_STRENGTH
+        rd.append(images.dip[t2, z2].astype(float)[on])
+        co.append(images.coherence[t2, z2].astype(float)[on])
+        pp.append(pd[ok][on])
+    if not rd:
+        return np.zeros(0), np.zeros(0), np.zeros(0)
+    return np.concatenate(rd), np.concatenate(co), np.concatenate(pp)
+
+
+def _slope_dip(c, traces):
+    """The slope's own apparent dip (samples per trace): the median over its steep part of the
+    profile's gradient smoothed at the scale the slope was read on."""
+    from ..candidates import smooth_profile
+
+    g = np.gradient(smooth_profile(c.z_index, max(1.0, 0.5 * c.bends.sigma_traces)))
+    return float(np.median(g[c.at(traces)]))
 
 
 def _discordance(rd, coh, pd):
     keep = coh >= MIN_COHERENCE
-    if keep.sum() < 5:
+    if keep.sum() < MIN_CELLS:
         return float("nan"), int(keep.sum())
     w = coh[keep]
     disc = np.abs(rd[keep] - pd[keep]) > DISCORDANT_FRACTION * np.abs(pd[keep])
@@ -57,26 +103,32 @@ def _discordance(rd, coh, pd):
 
 
 def onlap(images, c) -> Evidence:
-    """Evidence that reflections above the slope end against it (onlap) rather than drape it.
+    """Evidence that reflections beside the slope end against it (onlap) rather than run parallel (drape, folds).
 
     Returns
     -------
     Evidence
-        ``values``: ``above_discordant`` and ``below_discordant`` (coherence
-        weighted share of discordant reflections in the band above / below
-        the steep part of the slope), ``n_above``, ``n_below``.
+        ``values``: ``above_discordant`` (coherence-weighted share of
+        discordant reflections basinward of the slope, in the fill) and
+        ``below_discordant`` (landward of it, in the platform), ``n_above``,
+        ``n_below``.  The score is ``above_discordant``; neutral where the
+        slope dips less than :data:`MIN_DIP_SAMPLES` per trace (the dips of a
+        ramp and of its fill cannot be told apart) or too few coherent
+        reflections lie beside it.
     """
+    from ..candidates import smooth_profile
+
     tr = face_traces(c)
-    pd = np.gradient(c.z_index)[c.at(tr)]
-    sgn = 1.0 if c.direction == "+" else -1.0
+    pd = np.gradient(smooth_profile(c.z_index, max(1.0, 0.5 * c.bends.sigma_traces)))[c.at(tr)]
+    sgn = 1 if c.direction == "+" else -1
     steep = sgn * pd > 0.5 * np.max(sgn * pd) if pd.size else pd > 0
-    steep &= np.abs(pd) <= 4 * ALIASED_PERIODS * images.period_samples
     tr = tr[steep]
-    if tr.size == 0:
-        return Evidence("onlap", NEUTRAL, {}, "slope too steep or too short to read the reflections beside it")
-    above, n_a = _discordance(*_band(images, c, tr, -1.0))
-    below, n_b = _discordance(*_band(images, c, tr, +1.0))
+    if tr.size == 0 or abs(_slope_dip(c, tr)) < MIN_DIP_SAMPLES:
+        return Evidence("onlap", NEUTRAL, {}, "slope too gentle or too short to read the reflections beside it")
+    above, n_a = _discordance(*_beside(images, c, tr, -1))
+    below, n_b = _discordance(*_beside(images, c, tr, +1))
     vals = {"above_discordant": above, "below_discordant": below, "n_above": n_a, "n_below": n_b}
-    score = above if n_a >= 10 and above == above else NEUTRAL
+    score = above if above == above else NEUTRAL
     return Evidence("onlap", score, vals,
-                    f"reflections above the slope {100 * above:.0f}% discordant (onlap), below {100 * below:.0f}%")
+                    f"reflections in the fill beside the slope {100 * above:.0f}% discordant (onlap), in the "
+                    f"platform {100 * below:.0f}%")

@@ -22,8 +22,11 @@ import numpy as np
 from ._regions import top_traces
 from .record import Evidence, mean_score, ramp
 
-__all__ = ["platform_top", "MIN_STRENGTH", "polarity_consistency", "profile_gradient_deg"]
+__all__ = ["platform_top", "MIN_STRENGTH", "polarity_consistency", "lateral_correlation", "profile_gradient_deg"]
 
+#: the correlation window reaches at least this many samples either side of
+#: the pick (a window of a few samples correlates by chance; our choice)
+MIN_HALF_WINDOW = 3
 #: a pick counts as on a reflection when its strength above the background
 #: reaches this (0..1 between the image's median and its 99.5th percentile;
 #: our choice, no source)
@@ -38,6 +41,52 @@ def polarity_consistency(images, traces, z_index) -> float:
     pos = images.positive[np.asarray(traces), zi]
     f = float(np.mean(pos))
     return max(f, 1.0 - f)
+
+
+def lateral_correlation(images, traces, z_index) -> float:
+    """Mean correlation of neighbouring traces' amplitudes in a window of one period about the picks.
+
+    The windows are aligned on the picks, so the reflection's dip is taken
+    out; a laterally continuous reflection gives values near 1 (its
+    waveform repeats from trace to trace), noise gives low values.
+    """
+    tr = np.asarray(traces)
+    if tr.size < 2:
+        return float("nan")
+    half = max(MIN_HALF_WINDOW, int(round(0.5 * images.period_samples)))
+    offs = np.arange(-half, half + 1)
+    zc = np.clip(np.rint(np.asarray(z_index)).astype(np.int64)[:, None] + offs[None, :], 0, images.n_z - 1)
+    w = np.asarray(images.amplitude[tr[:, None], zc], dtype=float)
+    w = w - w.mean(axis=1, keepdims=True)
+    a, b = w[:-1], w[1:]
+    den = np.sqrt(np.sum(a * a, axis=1) * np.sum(b * b, axis=1))
+    ok = (den > 0) & ~images.dead[tr[:-1]] & ~images.dead[tr[1:]] & (np.diff(tr) == 1)
+    if not ok.any():
+        return float("nan")
+    return float(np.mean(np.sum(a * b, axis=1)[ok] / den[ok]))
+
+
+def dominance(images, traces, z_index) -> float:
+    """Envelope along the picks over the strongest envelope of the layers one to four periods above and below.
+
+    The top of a carbonate platform is the strongest reflection of its
+    neighbourhood (the largest impedance contrast of the succession,
+    common practice, no source); a reflector of a layered clastic
+    succession has neighbours about as strong.
+    """
+    tr = np.asarray(traces)
+    if tr.size == 0:
+        return float("nan")
+    p = images.period_samples
+    zi = np.asarray(z_index, dtype=float)
+    own = np.asarray(images.envelope[tr, np.clip(np.rint(zi).astype(np.int64), 0, images.n_z - 1)], dtype=float)
+    offs = np.arange(int(round(p)), int(round(4 * p)) + 1)
+    best = np.zeros(tr.size)
+    for sgn in (-1, 1):
+        zz = np.clip(np.rint(zi[:, None] + sgn * offs[None, :]).astype(np.int64), 0, images.n_z - 1)
+        best = np.maximum(best, np.max(images.envelope[tr[:, None], zz], axis=1))
+    den = float(np.median(best))
+    return float(np.median(own)) / den if den > 0 else float("nan")
 
 
 def profile_gradient_deg(c, traces, images) -> float:
@@ -80,13 +129,15 @@ def platform_top(images, c) -> Evidence:
         "continuity": float(np.mean(q >= MIN_STRENGTH)),
         "coherence": float(np.mean(coh)),
         "polarity": polarity_consistency(images, tr, zi),
+        "lateral_correlation": lateral_correlation(images, tr, zi),
+        "dominance": dominance(images, tr, zi),
         "gradient_deg": profile_gradient_deg(c, tr, images),
     }
     score = mean_score([
         ramp(vals["strength"], 0.4, 0.9),
         vals["continuity"],
         ramp(vals["coherence"], 0.4, 0.9),
-        ramp(vals["polarity"], 0.7, 1.0),
+        ramp(vals["lateral_correlation"], 0.5, 0.9),
         ramp(vals["length_m"], 0.0, 4.0 * images.wavelength_m),
     ])
     return Evidence("platform_top", score, vals,
