@@ -43,6 +43,7 @@ __all__ = [
     "cuts_layering",
     "implausible_slope",
     "drape",
+    "fold",
     "too_small",
     "jitter",
     "concentrated_relief",
@@ -89,6 +90,9 @@ RAMP_STEP_SHARE = 0.5
 #: a candidate lies beneath or above a margin's profile when its slope is
 #: at least this many dominant periods away from it (one wavelet lobe)
 SEPARATION_PERIODS = 0.5
+#: the layering below a surface landward of the break and basinward of the
+#: toe correlates at least this well in a fold (our choice, no source)
+FOLD_LAYERING = 0.75
 #: a slope that spans at least this many traces (a narrower step is one jump of the
 #: picks; common practice, no source)
 MIN_SLOPE_TRACES = 2
@@ -201,6 +205,27 @@ def drape(onlap):
     return None
 
 
+def fold(onlap, character):
+    """A bend that the layers beneath it share: a fold or a tilted fault block, not a margin.
+
+    Guards against structural relief: beneath a margin's slope lies the
+    platform (its interior layers end at the slope or, as older foresets,
+    stop at its toe), and beneath its basin floor another succession; beneath
+    a fold limb the same layers run parallel to the bend and on under the
+    low side.  Both must hold: the reflections below the slope are parallel
+    to it (:data:`DRAPE_MAX_DISCORDANT`) and the layering below the surface
+    landward of the break matches that below it basinward of the toe
+    (:data:`FOLD_LAYERING`).
+    """
+    below, n_below = _v(onlap, "below_discordant"), _v(onlap, "n_below", 0.0)
+    layering = _v(character, "below")
+    if (math.isfinite(below) and n_below >= DRAPE_MIN_CELLS and below <= DRAPE_MAX_DISCORDANT
+            and math.isfinite(layering) and layering >= FOLD_LAYERING):
+        return (f"the layers beneath the slope run parallel to it and on beneath the basin floor (layering "
+                f"correlation {layering:.2f}): a fold or a tilted fault block, not a margin")
+    return None
+
+
 def too_small(relief_m, min_relief_m):
     """Relief below the seismic resolution (half a wavelength by default)."""
     if not relief_m >= min_relief_m:
@@ -301,6 +326,7 @@ def vet(evidence: dict, images, *, slope_max_deg, relief_m, min_relief_m, n_slop
         cuts_layering(face),
         implausible_slope(slope_max_deg),
         drape(onl),
+        fold(onl, char),
         too_small(relief_m, min_relief_m),
         jitter(n_slope_traces) if has_break else None,
     ]

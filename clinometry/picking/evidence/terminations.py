@@ -22,7 +22,6 @@ import numpy as np
 
 from ._regions import face_traces
 from .faces import MIN_COHERENCE
-from .tops import MIN_STRENGTH
 from .record import NEUTRAL, Evidence
 
 __all__ = ["onlap", "OFFSET_PERIODS", "MIN_DIP_SAMPLES"]
@@ -33,6 +32,10 @@ __all__ = ["onlap", "OFFSET_PERIODS", "MIN_DIP_SAMPLES"]
 OFFSET_PERIODS = (1.0, 1.5, 2.0)
 #: slopes dipping less than this (samples per trace) are not compared (our choice)
 MIN_DIP_SAMPLES = 0.3
+#: a cell off the slope counts as a reflection when its envelope reaches this
+#: fraction of the slope's own (and the image's background); weaker ringing
+#: of the slope's wavelet does not (our choice, no source)
+RELATIVE_STRENGTH = 0.2
 #: fewest coherent cells for a reading
 MIN_CELLS = 5
 #: a reflection is discordant when its dip differs from the slope's by more
@@ -55,6 +58,7 @@ def _beside(images, c, traces, side):
     pd = np.full(k.size, _slope_dip(c, traces))
     sgn = 1.0 if c.direction == "+" else -1.0
     strength = 1.0 - images.cost.cost
+    own = images.envelope[traces, np.clip(np.rint(zp).astype(np.int64), 0, images.n_z - 1)].astype(float)
     vm = images.vertical_m[np.clip(np.rint(zp).astype(np.int64), 0, images.n_z - 1)]  # m per sample / dx
     g = np.abs(pd) * vm  # true gradient (m/m)
     theta = np.arctan(g)
@@ -74,8 +78,10 @@ def _beside(images, c, traces, side):
         if not ok.any():
             continue
         t2, z2 = t2[ok], z2[ok]
-        # a reflection, not the faint ringing of a wavelet: strength counts
-        on = strength[t2, images.cells(z2)] >= MIN_STRENGTH
+        # a reflection, not the faint ringing of a wavelet: above the image's
+        # background and at least a fraction of the slope's own envelope
+        on = (strength[t2, images.cells(z2)] > 0) & (
+            images.envelope[t2, z2] >= RELATIVE_STRENGTH * own[ok])
         rd.append(images.dip[t2, z2].astype(float)[on])
         co.append(images.coherence[t2, z2].astype(float)[on])
         pp.append(pd[ok][on])
