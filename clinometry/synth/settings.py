@@ -17,14 +17,17 @@ lines) are unchanged; :data:`ALL_SCENARIOS` holds both.
 
 from __future__ import annotations
 
+import dataclasses
 from dataclasses import dataclass, field, replace
+
+import numpy as np
 
 from .analytic import Setting
 from .bodies import Layers, Margin, Mound, Mounds, Ramp
 from .fill import Fill, ToeSubsidence
 from .profiles import Foreset
 
-__all__ = ["AnalyticScenario", "ANALYTIC_SCENARIOS", "GROUPS"]
+__all__ = ["AnalyticScenario", "ANALYTIC_SCENARIOS", "GROUPS", "draw_variant", "VARIANT_SPREAD"]
 
 
 @dataclass(frozen=True)
@@ -208,3 +211,80 @@ GROUPS = {
     "ramps": ("ramp_homoclinal", "ramp_low_angle", "ramp_distally_steepened"),
     "no margin": ("flat_layers", "folded_layers", "white_noise", "bandlimited_noise"),
 }
+
+
+#: geometry draws: slopes and the compaction fraction are scaled by up to
+#: this fraction, all depths by one common factor within it, and every
+#: position along the line shifted by up to ``_SHIFT_M`` (project choices:
+#: enough to move breaks by several traces and slopes by a few degrees)
+VARIANT_SPREAD = 0.1
+_SHIFT_M = 200.0
+#: a drawn slope stays this far (deg) on its own side of the 30 deg family bound
+_FAMILY_MARGIN_DEG = 4.0
+
+
+def _draw(obj, rng, *, depth_factor, shift_m, spread):
+    from .analytic import STEEP_MIN_SLOPE_DEG
+
+    changes = {}
+    for f in dataclasses.fields(obj):
+        v = getattr(obj, f.name)
+        if dataclasses.is_dataclass(v):
+            changes[f.name] = _draw(v, rng, depth_factor=depth_factor, shift_m=shift_m, spread=spread)
+        elif isinstance(v, tuple) and v and all(dataclasses.is_dataclass(e) for e in v):
+            changes[f.name] = tuple(_draw(e, rng, depth_factor=depth_factor, shift_m=shift_m, spread=spread)
+                                    for e in v)
+        elif isinstance(v, float) and not isinstance(v, bool):
+            if f.name.endswith("slope_deg") and not f.name.startswith("top"):
+                new = v * rng.uniform(1.0 - spread, 1.0 + spread)
+                if v > STEEP_MIN_SLOPE_DEG:
+                    new = max(new, STEEP_MIN_SLOPE_DEG + _FAMILY_MARGIN_DEG)
+                elif v > 2.0:
+                    new = min(new, STEEP_MIN_SLOPE_DEG - _FAMILY_MARGIN_DEG)
+                changes[f.name] = float(new)
+            elif f.name.endswith("_x_m"):
+                changes[f.name] = v + shift_m
+            elif f.name.endswith("depth_m"):
+                changes[f.name] = v * depth_factor
+            elif f.name == "compaction":
+                changes[f.name] = float(min(1.0, v * rng.uniform(1.0 - 2 * spread, 1.0 + 2 * spread)))
+    return dataclasses.replace(obj, **changes) if changes else obj
+
+
+def draw_variant(scenario, seed, *, spread=VARIANT_SPREAD):
+    """An analytic scenario with its geometry drawn around the named one.
+
+    Every flank slope is scaled by a factor in ``1 +- spread`` (kept on its
+    side of the 30 deg family bound by ``_FAMILY_MARGIN_DEG``), the
+    compaction fraction by ``1 +- 2 spread``, every depth by one common
+    factor in ``1 +- spread`` (so the stacking order holds), and every
+    position along the line shifted by one amount within +-200 m.  The
+    seismic defaults are unchanged; the truth of the drawn line is measured
+    on its own geometry as for any line.
+
+    Parameters
+    ----------
+    scenario : str or AnalyticScenario
+    seed : int
+        Seeds the draw (the same seed gives the same geometry).
+    spread : float
+
+    Returns
+    -------
+    AnalyticScenario
+        Named ``"<name>@<seed>"``.
+
+    Examples
+    --------
+    >>> a, b = draw_variant("mound_single", 1), draw_variant("mound_single", 1)
+    >>> a == b, a.name, a.setting.body.mounds[0].left_slope_deg != 40.0
+    (True, 'mound_single@1', True)
+    """
+    sc = ANALYTIC_SCENARIOS[scenario] if isinstance(scenario, str) else scenario
+    rng = np.random.default_rng([int(seed), 20261203])
+    depth_factor = float(rng.uniform(1.0 - spread, 1.0 + spread))
+    shift = float(rng.uniform(-_SHIFT_M, _SHIFT_M))
+    setting = _draw(sc.setting, rng, depth_factor=depth_factor, shift_m=shift, spread=spread)
+    return replace(sc, name=f"{sc.name}@{int(seed)}", setting=setting,
+                   max_depth_m=sc.max_depth_m * max(depth_factor, 1.0),
+                   description=f"{sc.description} (geometry drawn with seed {int(seed)})")

@@ -249,3 +249,21 @@ def test_depth_domain_analytic_line_and_mound_top_is_a_positive_peak():
     win = np.abs(z - top) <= 8.0
     assert abs(z[win][np.argmax(sd.values[crest, win])] - top) <= 4.0
     assert FACIES.index("platform") == 1
+
+
+@pytest.mark.parametrize("seed", [1, 2])
+@pytest.mark.parametrize("name", ["mound_pair_narrow", "margin_backtilted_fill", "ramp_distally_steepened",
+                                  "margin_steep_flat"])
+def test_drawn_geometry_keeps_flanks_families_and_trajectory_class(name, seed):
+    from clinometry.synth.settings import draw_variant
+
+    sc = draw_variant(name, seed)
+    assert sc == draw_variant(name, seed) and sc.name == f"{name}@{seed}"
+    assert sc.setting != ANALYTIC_SCENARIOS[name].setting
+    nominal = LINES[name][1]["margins"]
+    drawn = make_line(sc, noise=False)[1]["margins"]
+    assert [(m["direction"], m["family"]) for m in drawn] == [(m["direction"], m["family"]) for m in nominal]
+    for m in drawn:
+        assert m["family"] == "ramp" or abs(m["slope_max_deg"] - STEEP_MIN_SLOPE_DEG) >= 4.0
+        if ANALYTIC_SCENARIOS[name].trajectory:
+            assert m["trajectory"]["class"] == ANALYTIC_SCENARIOS[name].trajectory
