@@ -52,3 +52,4 @@ def test_calibration_bins_count_false_margins_as_wrong(bench, capsys):
     assert "| 0.9-1.0 | 2 | 1 | 0.50 | 1 |" in out  # confidence 1.0 falls in the last bin
     assert "| 0.0-0.5 | 1 | 0 | 0.00 | 0 |" in out
     assert "| 0.5-0.6 | 0 | 0 | n/a | 0 |" in out
+
