@@ -45,8 +45,8 @@ from .lines import TRUTH_SCHEMA_VERSION, _point, clinoform_rows, line_geometry, 
 from .seismic import SynthVelocity, bandlimited_noise, render
 from .truth import profile_margin
 
-__all__ = ["Setting", "Built", "build", "flank_truth", "make_analytic_line", "STEEP_MIN_SLOPE_DEG",
-           "RAMP_MAX_SLOPE_DEG"]
+__all__ = ["Setting", "Built", "build", "flank_truth", "family_of_slope", "make_analytic_line", "surfaces_z",
+           "STEEP_MIN_SLOPE_DEG", "RAMP_MAX_SLOPE_DEG"]
 
 logger = logging.getLogger(__name__)
 

@@ -21,9 +21,9 @@ import numpy as np
 
 from ..errors import GeometryError
 from ..section import make_section
+from .conditions import apply_conditions, check_dead_traces, describe_conditions, noise_wavelet
 from .growth import grow
 from .scenarios import Scenario, get_scenario
-from .conditions import apply_conditions, check_dead_traces, describe_conditions, noise_wavelet
 from .seismic import SynthVelocity, render
 from .truth import BASE_LENGTH_M, SMOOTHING_M, TRAJECTORY_FLAT_DEG, profile_margin, trajectory
 
