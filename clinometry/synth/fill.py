@@ -25,7 +25,8 @@ laid: the oldest layers are tilted most, the youngest not at all.
 bent over it by the differential compaction of the sediment beside the
 rigid carbonate (mud porosity falls with burial, Athy 1930 [1]_; shale
 porosity ~0.6 at the surface falls to ~0.35-0.4 by 1 km, Sclater & Christie
-1980 [2]_, i.e. 35-40 % shortening; from memory).  A layer only records the
+1980 [2]_; from memory), i.e. (1 - 0.6) / (1 - 0.35) = 0.62 of the fresh
+thickness, 35-40 % shortening of the fill beside the body.  A layer only records the
 compaction after it was laid down, so the relief it shows decreases upward:
 ``f <- (1 - a_j) f + a_j B_j`` with ``a_j = compaction exp(-h_j / H)``, ``h_j``
 the height of the layer above the buried crest (0 below it), ``H =
@@ -39,10 +40,9 @@ References
 ----------
 .. [1] Athy, L. F. (1930). Density, porosity, and compaction of sedimentary
    rocks. AAPG Bulletin 14, 1-24. (from memory)
-.. [2] Sclater, J. G. & Christie, P. A. F. (1980). Continental stretching:
-   an explanation of the post-mid-Cretaceous subsidence of the central
-   North Sea basin. Journal of Geophysical Research 85, 3711-3739.
-   (from memory)
+.. [2] Sclater, J. G. & Christie, P. A. F. (1980). Journal of Geophysical
+   Research 85, 3711-3739: exponential porosity-depth constants of shale
+   and sand. (from memory)
 """
 
 from __future__ import annotations

@@ -98,13 +98,13 @@ _LIST = (
         "mixed", "ascending",
         Setting(5000.0, 12.5, Mounds((_mound(2300.0, 800.0, 280.0, 55.0, 22.0, 520.0, 520.0, dome_deg=0.3),)))),
     AnalyticScenario(
-        "mound_pair_wide", "two build-ups (36-44 deg flanks) with a flat saddle floor ~1.3 km wide at the basin floor",
+        "mound_pair_wide", "two build-ups (36-44 deg flanks) with a flat saddle floor ~1.4 km wide at the basin floor",
         "steep_margin", "ascending",
         Setting(7000.0, 12.5, Mounds((_mound(2200.0, 400.0, 320.0, 40.0, 36.0, 600.0, 600.0),
                                       _mound(4800.0, 500.0, 300.0, 44.0, 38.0, 600.0, 600.0))))),
     AnalyticScenario(
         "mound_pair_narrow", "two build-ups on a common bank: facing flanks (34-36 deg) meet in a narrow V "
-        "saddle 100-200 m above the outer basin floor",
+        "saddle (toes 125 m apart) about 100 m above the outer basin floor",
         "steep_margin", "ascending", Setting(6000.0, 12.5, _PAIR_NARROW)),
     AnalyticScenario(
         "mound_drape", "isolated 45 deg build-up buried by onlapping fill and an overburden draped over it "
