@@ -2,9 +2,11 @@
 
 A margin is grown with the light-dependent production law of Bosscher &
 Schlager (1992), reworking above a reworking depth and angle-of-repose-limited
-deposition, rendered by convolution with a Ricker wavelet, and written as
-SEG-Y with ``<stem>.truth.json`` beside it (true shelf break, toe, slope,
-relief and trajectory).  Scenarios are invented settings; ``--list`` shows them.
+deposition -- or laid out from analytic profiles (isolated mounds and saddles,
+basin fill, drape, ramps, layered and noise lines with no margin) -- rendered
+by convolution with a Ricker wavelet, and written as SEG-Y with
+``<stem>.truth.json`` beside it (true shelf break, toe, slope, relief and
+trajectory).  Scenarios are invented settings; ``--list`` shows them.
 """
 
 from __future__ import annotations
@@ -12,7 +14,7 @@ from __future__ import annotations
 import logging
 
 from ..errors import GeometryError
-from ..synth import SCENARIOS, make_cube, make_line, write_cube, write_line
+from ..synth import ALL_SCENARIOS, ANALYTIC_SCENARIOS, GROUPS, SCENARIOS, make_cube, make_line, write_cube, write_line
 
 __all__ = ["DESCRIPTION", "EXAMPLE", "configure", "run", "CUBE_SCENARIO"]
 
@@ -44,13 +46,26 @@ def configure(parser):
     parser.add_argument("--reverse-polarity", action="store_true", help="flip the sign (SEG reverse polarity)")
     parser.add_argument("--gain-drift", type=float, default=0.0, metavar="FRACTION", help="linear gain drift along the line, fraction (e.g. 0.5)")
     parser.add_argument("--dead-traces", metavar="I,J,...", default="", help="comma-separated trace indices set to zero")
+    parser.add_argument("--gain-step", metavar="TRACE,FACTOR", help="multiply every trace from TRACE on by FACTOR "
+                        "(a gain step across the line, e.g. 200,3)")
+    parser.add_argument("--amplitude-scale", type=float, default=1.0, metavar="FACTOR",
+                        help="multiply the whole line by FACTOR (default 1)")
+
+
+def _row(name, sc):
+    print(f"{name:24s} {str(sc.family or '-'):14s} {str(sc.trajectory or '-'):11s} {sc.description}")
 
 
 def _list():
-    print(f"{'scenario':20s} {'family':14s} {'trajectory':11s} description")
+    print(f"{'scenario':24s} {'family':14s} {'trajectory':11s} description")
+    print("# grown margins (the bundled lines)")
     for name, sc in SCENARIOS.items():
-        print(f"{name:20s} {str(sc.family or '-'):14s} {str(sc.trajectory or '-'):11s} {sc.description}")
-    print(f"{CUBE_SCENARIO:20s} {'rimmed_shelf':14s} {'ascending':11s} 3D cube, margin strike bending across 40 inlines")
+        _row(name, sc)
+    print(f"{CUBE_SCENARIO:24s} {'rimmed_shelf':14s} {'ascending':11s} 3D cube, margin strike bending across 40 inlines")
+    for group, names in GROUPS.items():
+        print(f"# analytic: {group}")
+        for name in names:
+            _row(name, ANALYTIC_SCENARIOS[name])
 
 
 def run(args) -> int:
@@ -74,12 +89,20 @@ def run(args) -> int:
         print(f"wrote {sgy} ({cube.sizes['inline']} inlines x {cube.sizes['crossline']} crosslines x {cube.sizes['z']} samples)")
         print(f"wrote {js}")
         return 0
-    if args.scenario not in SCENARIOS:
-        raise GeometryError(f"unknown scenario {args.scenario!r}; choose one of {sorted(SCENARIOS) + [CUBE_SCENARIO]}")
+    if args.scenario not in ALL_SCENARIOS:
+        raise GeometryError(f"unknown scenario {args.scenario!r}; choose one of "
+                            f"{sorted(SCENARIOS) + [CUBE_SCENARIO] + sorted(ANALYTIC_SCENARIOS)}")
     try:
         dead = [int(t) for t in args.dead_traces.split(",") if t.strip()]
     except ValueError as err:
         raise GeometryError(f"--dead-traces must be comma-separated integers, got {args.dead_traces!r}") from err
+    gain_step = None
+    if args.gain_step:
+        try:
+            trace, factor = args.gain_step.split(",")
+            gain_step = (int(trace), float(factor))
+        except ValueError as err:
+            raise GeometryError(f"--gain-step must be TRACE,FACTOR (e.g. 200,3), got {args.gain_step!r}") from err
     sec, truth = make_line(
         args.scenario, snr=args.snr, seed=args.seed, peak_hz=args.wavelet_hz,
         velocity_m_s=args.velocity, velocity_k_per_s=args.velocity_gradient, domain=args.domain,
@@ -87,7 +110,7 @@ def run(args) -> int:
         dz_m=args.sample_interval if args.domain == "depth" else None,
         n_samples=args.samples, delay_ms=args.delay, trace_spacing_m=args.trace_spacing, azimuth_deg=args.azimuth,
         polarity_reversed=args.reverse_polarity, gain_drift_fraction=args.gain_drift,
-        dead_traces=dead, noise=not args.no_noise)
+        dead_traces=dead, noise=not args.no_noise, gain_step=gain_step, amplitude_scale=args.amplitude_scale)
     sgy, js = write_line(sec, truth, args.out, sample_format=args.format)
     print(f"wrote {sgy} ({sec.sizes['trace']} traces x {sec.sizes['z']} samples, {args.domain}, "
           f"{len(truth['margins'])} margin(s))")

@@ -21,13 +21,15 @@ import numpy as np
 
 from ..errors import GeometryError
 from ..section import make_section
+from .conditions import apply_conditions, check_dead_traces, describe_conditions, noise_wavelet
 from .growth import grow
-from .scenarios import get_scenario
-from .seismic import SynthVelocity, bandlimited_noise, render, ricker
 from ..definitions import BASE_LENGTH_TRACES, SLOPE_MAX_QUANTILE
+from .scenarios import Scenario, get_scenario
+from .seismic import SynthVelocity, render
 from .truth import SMOOTHING_M, TRAJECTORY_FLAT_DEG, profile_margin, trajectory
 
-__all__ = ["make_line", "grown_surfaces", "TRUTH_SCHEMA_VERSION", "line_geometry", "margins_truth"]
+__all__ = ["make_line", "grown_surfaces", "TRUTH_SCHEMA_VERSION", "line_geometry", "margins_truth",
+           "margin_record", "clinoform_rows", "truth_definitions"]
 
 logger = logging.getLogger(__name__)
 
@@ -50,6 +52,19 @@ def line_geometry(n_traces, *, trace_spacing_m, azimuth_deg, origin_xy_m):
     d = np.arange(n_traces) * float(trace_spacing_m)
     a = np.deg2rad(azimuth_deg)
     return origin_xy_m[0] + d * np.sin(a), origin_xy_m[1] + d * np.cos(a)
+
+
+def truth_definitions():
+    """The ``definitions`` record of a truth JSON (how break, toe, slope and depth are defined)."""
+    return {"smoothing_m": SMOOTHING_M, "base_length_traces": BASE_LENGTH_TRACES,
+            "slope_max_quantile": SLOPE_MAX_QUANTILE,
+            "trajectory_flat_tolerance_deg": TRAJECTORY_FLAT_DEG,
+            "break": "max convex-up curvature between platform top and steepest point",
+            "toe": "max concave-up curvature between steepest point and basin floor",
+            "slope_max": ("80th percentile of least-squares dips over a horizontal base wholly between break "
+                          "and toe, base = max(3 traces, the length over which one depth sample changes the "
+                          "dip by a tenth); as clinometry.metrics.slope"),
+            "depth_m": "below the z origin (time zero), positive down"}
 
 
 def _point(i, depth_m, *, distance, x, y, to_z):
@@ -94,46 +109,97 @@ def margins_truth(depths, *, sides, distance, x, y, to_z, family, n_steps, depth
     out = []
     steps = np.unique(np.linspace(int(_CLINO_START_FRACTION * n_steps), n_steps,
                                   _N_CLINOFORMS).astype(int))
+    pt = dict(distance=distance, x=x, y=y, to_z=to_z)
     for direction, idx in segs.items():
-        s = np.abs(distance[idx] - distance[idx[0]])
-        m = profile_margin(s, final[idx], depth_sample_m=depth_sample_m)
-        if m is None:
-            continue
-        pt = dict(distance=distance, x=x, y=y, to_z=to_z)
-        ib, it = idx[m["break"]], idx[m["toe"]]
-        clinos = []
-        for k in steps:
-            mk = profile_margin(s, depths[k][idx], depth_sample_m=depth_sample_m)
-            if mk is None:
-                continue
-            kb, kt = idx[mk["break"]], idx[mk["toe"]]
-            clinos.append({"step": int(k),
-                           "break": _point(kb, depths[k][kb], **pt),
-                           "toe": _point(kt, depths[k][kt], **pt),
-                           "relief_m": mk["relief_m"], "slope_max_deg": mk["slope_max_deg"],
-                           "slope_mean_deg": mk["slope_mean_deg"]})
-        traj = None
-        if len(clinos) >= 3:
-            bs = np.array([abs(c["break"]["distance_m"] - distance[idx[0]]) for c in clinos])
-            bd = np.array([c["break"]["depth_m"] for c in clinos])
-            traj = trajectory(bs, bd)
-        top_idx = idx[: m["break"] + 1]
-        out.append({
-            "direction": direction,
-            "family": family,
-            "platform_top": {"depth_m": float(np.median(final[top_idx])),
-                             "trace_from": int(min(top_idx[0], top_idx[-1])),
-                             "trace_to": int(max(top_idx[0], top_idx[-1]))},
-            "break": _point(ib, final[ib], **pt),
-            "toe": _point(it, final[it], **pt),
-            "steepest": _point(idx[m["steepest"]], final[idx[m["steepest"]]], **pt),
-            "relief_m": m["relief_m"],
-            "slope_max_deg": m["slope_max_deg"],
-            "slope_mean_deg": m["slope_mean_deg"],
-            "clinoforms": clinos,
-            "trajectory": traj,
-        })
+        rec = margin_record(depths, idx, direction=direction, family=family,
+                            clinoform_rows=[(int(k), int(k)) for k in steps], pt=pt,
+                            depth_sample_m=depth_sample_m)
+        if rec is not None:
+            out.append(rec)
     return out
+
+
+def clinoform_rows(rows, *, start_fraction=_CLINO_START_FRACTION, n=_N_CLINOFORMS):
+    """(stage, row) pairs of the clinoforms reported for a body whose stages are ``rows``.
+
+    The same choice as for grown lines: from ``start_fraction`` of the stages
+    to the youngest, at most ``n`` of them.
+
+    Examples
+    --------
+    >>> clinoform_rows([3, 4, 5, 6, 7, 8])
+    [(1, 4), (2, 5), (3, 6), (4, 7), (5, 8)]
+    """
+    rows = list(rows)
+    last = len(rows) - 1
+    steps = np.unique(np.linspace(int(start_fraction * last), last, n).astype(int))
+    return [(int(k), int(rows[k])) for k in steps]
+
+
+def margin_record(depths, idx, *, direction, family, clinoform_rows, pt, depth_sample_m=None, final_row=-1):
+    """Truth of one margin profile: break, toe, slope, relief, clinoforms and trajectory.
+
+    Parameters
+    ----------
+    depths : ndarray, shape (n_surf, n_trace), m
+        Depth of each stratal surface, positive down.
+    idx : ndarray of int
+        Trace indices of the profile in basinward order.
+    direction : {"+", "-"}
+    family : str or None
+    clinoform_rows : list of (int, int)
+        ``(step, row)`` of each clinoform surface, oldest first.
+    pt : dict
+        ``distance``, ``x``, ``y`` (arrays by trace) and ``to_z`` (depth -> z).
+    depth_sample_m : callable, optional
+        As in :func:`margins_truth`.
+    final_row : int
+        Row of the margin's outer surface (default the youngest).
+
+    Returns
+    -------
+    dict or None
+        None when the profile has no margin (:func:`clinometry.synth.truth.profile_margin`).
+    """
+    distance = pt["distance"]
+    final = depths[final_row]
+    s = np.abs(distance[idx] - distance[idx[0]])
+    m = profile_margin(s, final[idx], depth_sample_m=depth_sample_m)
+    if m is None:
+        return None
+    ib, it = idx[m["break"]], idx[m["toe"]]
+    clinos = []
+    for k, row in clinoform_rows:
+        mk = profile_margin(s, depths[row][idx], depth_sample_m=depth_sample_m)
+        if mk is None:
+            continue
+        kb, kt = idx[mk["break"]], idx[mk["toe"]]
+        clinos.append({"step": int(k),
+                       "break": _point(kb, depths[row][kb], **pt),
+                       "toe": _point(kt, depths[row][kt], **pt),
+                       "relief_m": mk["relief_m"], "slope_max_deg": mk["slope_max_deg"],
+                       "slope_mean_deg": mk["slope_mean_deg"]})
+    traj = None
+    if len(clinos) >= 3:
+        bs = np.array([abs(c["break"]["distance_m"] - distance[idx[0]]) for c in clinos])
+        bd = np.array([c["break"]["depth_m"] for c in clinos])
+        traj = trajectory(bs, bd)
+    top_idx = idx[: m["break"] + 1]
+    return {
+        "direction": direction,
+        "family": family,
+        "platform_top": {"depth_m": float(np.median(final[top_idx])),
+                         "trace_from": int(min(top_idx[0], top_idx[-1])),
+                         "trace_to": int(max(top_idx[0], top_idx[-1]))},
+        "break": _point(ib, final[ib], **pt),
+        "toe": _point(it, final[it], **pt),
+        "steepest": _point(idx[m["steepest"]], final[idx[m["steepest"]]], **pt),
+        "relief_m": m["relief_m"],
+        "slope_max_deg": m["slope_max_deg"],
+        "slope_mean_deg": m["slope_mean_deg"],
+        "clinoforms": clinos,
+        "trajectory": traj,
+    }
 
 
 def grown_surfaces(scenario, *, trace_spacing_m=None):
@@ -160,13 +226,15 @@ def grown_surfaces(scenario, *, trace_spacing_m=None):
 def make_line(scenario, *, snr=None, seed=0, peak_hz=None, velocity_m_s=None,
               velocity_k_per_s=None, domain="twt", dt_ms=None, dz_m=None, n_samples=None,
               delay_ms=None, trace_spacing_m=None, azimuth_deg=None, polarity_reversed=False,
-              gain_drift_fraction=0.0, dead_traces=(), noise=True):
+              gain_drift_fraction=0.0, dead_traces=(), noise=True, gain_step=None, amplitude_scale=1.0):
     """Grow a scenario and render it as a seismic section with its ground truth.
 
     Parameters
     ----------
-    scenario : str or Scenario
-        Name in :data:`~clinometry.synth.SCENARIOS` or a scenario object.
+    scenario : str, Scenario or AnalyticScenario
+        Name in :data:`~clinometry.synth.ALL_SCENARIOS` or a scenario object;
+        analytic settings (mounds, fill, drape, ramps, layered and noise
+        lines) are made by :func:`clinometry.synth.analytic.make_analytic_line`.
     snr : float, optional
         Signal-to-noise ratio, RMS(noise-free section) / RMS(noise) over live
         traces; default the scenario's.  ``noise=False`` switches noise off.
@@ -194,6 +262,11 @@ def make_line(scenario, *, snr=None, seed=0, peak_hz=None, velocity_m_s=None,
     dead_traces : sequence of int
         Traces set to zero (listed in attrs ``dead_traces``).
     noise : bool
+    gain_step : (int, float), optional
+        Traces from the first number on multiplied by the second (a gain
+        step across the line, signal and noise).
+    amplitude_scale : float
+        Global amplitude scale of the whole line.
 
     Returns
     -------
@@ -214,6 +287,15 @@ def make_line(scenario, *, snr=None, seed=0, peak_hz=None, velocity_m_s=None,
     (('trace', 'z'), '+')
     """
     sc = get_scenario(scenario)
+    if not isinstance(sc, Scenario):
+        from .analytic import make_analytic_line
+
+        return make_analytic_line(
+            sc, snr=snr, seed=seed, peak_hz=peak_hz, velocity_m_s=velocity_m_s,
+            velocity_k_per_s=velocity_k_per_s, domain=domain, dt_ms=dt_ms, dz_m=dz_m, n_samples=n_samples,
+            delay_ms=delay_ms, trace_spacing_m=trace_spacing_m, azimuth_deg=azimuth_deg,
+            polarity_reversed=polarity_reversed, gain_drift_fraction=gain_drift_fraction,
+            dead_traces=dead_traces, noise=noise, gain_step=gain_step, amplitude_scale=amplitude_scale)
     if domain not in ("twt", "depth"):
         raise GeometryError(f"domain must be 'twt' or 'depth', got {domain!r}")
     g = sc.growth
@@ -245,27 +327,12 @@ def make_line(scenario, *, snr=None, seed=0, peak_hz=None, velocity_m_s=None,
     distance = np.arange(n_tr) * g.dx_m
     rng = np.random.default_rng(seed)
     amp = render(depths, facies, z_out=z_out, domain=domain, velocity=vel, peak_hz=peak, rng=rng)
-    if gain_drift_fraction:
-        amp *= (1.0 + gain_drift_fraction * np.linspace(-0.5, 0.5, n_tr)).astype(np.float32)[:, None]
-    live = np.ones(n_tr, bool)
-    dead = sorted({int(t) for t in dead_traces})
-    if any(t < 0 or t >= n_tr for t in dead):
-        raise GeometryError(f"dead_traces must be within 0..{n_tr - 1}, got {dead}")
-    live[dead] = False
-    if noise and snr is not None:
-        if domain == "twt":
-            dt_s = dz / 1000.0
-        else:
-            dt_s = 2.0 * dz / (vel.v0_m_s + vel.k_per_s * float(np.median(z_out)))
-        half = int(np.ceil(1.5 / peak / dt_s))
-        w = ricker(np.arange(-half, half + 1) * dt_s, peak_hz=peak)
-        nz = bandlimited_noise(amp.shape, wavelet=w, rng=rng)
-        rms_s = float(np.sqrt(np.mean(amp[live].astype(np.float64) ** 2)))
-        rms_n = float(np.sqrt(np.mean(nz[live] ** 2)))
-        amp = (amp + nz * (rms_s / (snr * rms_n))).astype(np.float32)
-    if polarity_reversed:
-        amp = -amp
-    amp[~live] = 0.0
+    dead = check_dead_traces(dead_traces, n_tr)
+    wavelet = (noise_wavelet(peak_hz=peak, domain=domain, dz=dz, velocity=vel, z_out=z_out)
+               if noise and snr is not None else None)
+    amp = apply_conditions(amp, rng=rng, snr=snr if noise else None, wavelet=wavelet,
+                           gain_drift_fraction=gain_drift_fraction, polarity_reversed=polarity_reversed,
+                           gain_step=gain_step, amplitude_scale=amplitude_scale, dead=dead)
 
     to_z = vel.twt_ms if domain == "twt" else (lambda d: np.asarray(d, dtype=float))
     margins = margins_truth(depths, sides=sides, distance=distance, x=x, y=y,
@@ -295,19 +362,14 @@ def make_line(scenario, *, snr=None, seed=0, peak_hz=None, velocity_m_s=None,
         "gain_drift_fraction": float(gain_drift_fraction),
         "dead_traces": dead,
         "datum_depth_m": float(sc.datum_depth_m),
-        "definitions": {"smoothing_m": SMOOTHING_M, "base_length_traces": BASE_LENGTH_TRACES,
-                        "slope_max_quantile": SLOPE_MAX_QUANTILE,
-                        "trajectory_flat_tolerance_deg": TRAJECTORY_FLAT_DEG,
-                        "break": "max convex-up curvature between platform top and steepest point",
-                        "toe": "max concave-up curvature between steepest point and basin floor",
-                        "slope_max": ("80th percentile of least-squares dips over a horizontal base wholly "
-                                      "between break and toe, base = max(3 traces, the length over which one "
-                                      "depth sample changes the dip by a tenth); as clinometry.metrics.slope"),
-                        "depth_m": "below the z origin (time zero), positive down"},
+        "definitions": truth_definitions(),
         "expected_family": sc.family,
         "expected_trajectory": sc.trajectory,
         "growth": dataclasses.asdict(g),
         "margins": margins,
     }
+    conditions = describe_conditions(gain_step=gain_step, amplitude_scale=amplitude_scale)
+    if conditions:
+        truth["conditions"] = conditions
     logger.info("synthetic line %s: %d traces x %d samples, %d margin(s)", sc.name, n_tr, n_z, len(margins))
     return section, truth

@@ -46,6 +46,11 @@ def plot_preview(section, truth, path, *, surfaces_z=None, every=5):
         for c in m.get("clinoforms", []):
             ax.plot(c["break"]["distance_m"] / 1000.0, c["break"]["z"], "o", ms=3, color="gold")
             ax.plot(c["toe"]["distance_m"] / 1000.0, c["toe"]["z"], "o", ms=3, color="tab:purple")
+        if m.get("break") is None:  # a ramp: no break or toe, its descending span
+            sp = m["span"]
+            ax.axvspan(sp["distance_from_m"] / 1000.0, sp["distance_to_m"] / 1000.0, color="tab:orange",
+                       alpha=0.15, label=f"ramp span ({m['direction']})")
+            continue
         ax.plot(m["break"]["distance_m"] / 1000.0, m["break"]["z"], "^", ms=9, color="red",
                 label=f"break ({m['direction']})")
         ax.plot(m["toe"]["distance_m"] / 1000.0, m["toe"]["z"], "v", ms=9, color="blue",

@@ -170,12 +170,16 @@ SCENARIOS = {
 
 
 def get_scenario(name):
-    """Scenario by name; a :class:`Scenario` passes through."""
+    """Scenario by name, grown or analytic; a scenario object passes through."""
     from ..errors import GeometryError
+    from .settings import ANALYTIC_SCENARIOS, AnalyticScenario
 
-    if isinstance(name, Scenario):
+    if isinstance(name, (Scenario, AnalyticScenario)):
         return name
-    try:
+    if name in SCENARIOS:
         return SCENARIOS[name]
-    except KeyError:
-        raise GeometryError(f"unknown scenario {name!r}; choose one of {sorted(SCENARIOS)}") from None
+    try:
+        return ANALYTIC_SCENARIOS[name]
+    except (KeyError, TypeError):
+        raise GeometryError(f"unknown scenario {name!r}; choose one of "
+                            f"{sorted(SCENARIOS) + sorted(ANALYTIC_SCENARIOS)}") from None

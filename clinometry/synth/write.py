@@ -187,8 +187,10 @@ def _describe(truth):
         "DEPTH FILES: BINARY/TRACE SAMPLE INTERVAL IN MM, DELAY IN M" if truth.get("domain") == "depth"
         else "SAMPLE INTERVAL IN MICROSECONDS, DELAY IN MS",
         f"VELOCITY {json.dumps(truth.get('velocity', {}))}"[:76],
-        f"RICKER WAVELET PEAK {truth.get('wavelet', {}).get('peak_hz', 0):g} HZ  "
-        f"POLARITY {truth.get('wavelet', {}).get('polarity', 'normal').upper()}",
+        (f"RICKER WAVELET PEAK {truth.get('wavelet', {}).get('peak_hz', 0):g} HZ  "
+         if (truth.get("wavelet") or {}).get("peak_hz") is not None or "wavelet" not in truth
+         else "NO WAVELET (WHITE NOISE ONLY)  ")
+        + f"POLARITY {truth.get('wavelet', {}).get('polarity', 'normal').upper()}",
         f"SNR (RMS SIGNAL / RMS NOISE) {truth.get('snr')}",
         "CDP X/Y BYTES 181/185 SCALAR -100; INLINE/CROSSLINE BYTES 189/193",
         "GROUND TRUTH IN <STEM>.TRUTH.JSON",

@@ -47,3 +47,40 @@ def test_synth_unknown_scenario_exits_2_with_one_line(tmp_path, capsys):
 def test_synth_needs_scenario_and_out(capsys):
     assert main(["synth", "--scenario", "rimmed_shelf"]) == 2
     assert "--out" in capsys.readouterr().err
+
+
+def test_synth_list_shows_the_analytic_scenarios_by_group(capsys):
+    from clinometry.synth import ANALYTIC_SCENARIOS, GROUPS
+
+    assert main(["synth", "--list"]) == 0
+    out = capsys.readouterr().out
+    for name in ANALYTIC_SCENARIOS:
+        assert f"\n{name} " in out
+    for group in GROUPS:
+        assert f"# analytic: {group}" in out
+
+
+def test_synth_writes_an_analytic_depth_line_with_a_gain_step(tmp_path, capsys):
+    from clinometry.io import read_section
+
+    out = tmp_path / "pair.sgy"
+    rc = main(["synth", "--scenario", "mound_pair_narrow", "--out", str(out), "--domain", "depth",
+               "--sample-interval", "2.5", "--gain-step", "200,3", "--no-noise"])
+    assert rc == 0
+    assert "4 margin(s)" in capsys.readouterr().out
+    truth = json.loads((tmp_path / "pair.truth.json").read_text())
+    assert truth["conditions"]["gain_step"]["trace"] == 200 and truth["conditions"]["gain_step"]["factor"] == 3.0
+    assert [m["role"] for m in truth["margins"]] == ["outer", "saddle", "saddle", "outer"]
+    with segyio.open(out, ignore_geometry=True) as f:
+        # depth sample interval in thousandths of a metre (common practice, no source)
+        assert f.bin[segyio.BinField.Interval] == 2500
+    sec = read_section(out, domain="depth")
+    np.testing.assert_allclose(sec["z"].values[1] - sec["z"].values[0], 2.5)
+    m = truth["margins"][0]
+    assert m["break"]["z"] == m["break"]["depth_m"]  # depth domain: z is depth
+
+
+def test_synth_bad_gain_step_exits_2(tmp_path, capsys):
+    rc = main(["synth", "--scenario", "mound_single", "--out", str(tmp_path / "x.sgy"), "--gain-step", "3"])
+    assert rc == 2
+    assert "--gain-step must be TRACE,FACTOR" in capsys.readouterr().err
