@@ -1,7 +1,7 @@
 """Automatic picking of reflector surfaces, platform top, clinoforms, shelf break and toe.
 
 :func:`pick` runs a picker plugin (entry-point group ``clinometry.pickers``;
-the built-in ``default`` is :func:`clinometry.picking.surfaces.pick_default`)
+the built-in ``default`` is :func:`clinometry.picking.default.pick_default`)
 on a section and returns a :class:`~clinometry.picking.picks.Picks` record.
 :func:`~clinometry.picking.export.horizon_rows` turns picks into the rows of
 ``<stem>.horizons.csv``.
@@ -10,7 +10,7 @@ on a section and returns a :class:`~clinometry.picking.picks.Picks` record.
 from __future__ import annotations
 
 from .export import HORIZON_COLUMNS, horizon_rows
-from .picks import HORIZON_ROLES, ClinoformPicks, Horizon, MarginPicks, PickPoint, Picks
+from .picks import HORIZON_ROLES, ClinoformPicks, Horizon, MarginPicks, PickPoint, Picks, RejectedCandidate
 
 __all__ = [
     "pick",
@@ -22,6 +22,7 @@ __all__ = [
     "ClinoformPicks",
     "MarginPicks",
     "Picks",
+    "RejectedCandidate",
 ]
 
 

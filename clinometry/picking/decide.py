@@ -30,7 +30,8 @@ from .evidence.tops import platform_top
 from .evidence._regions import break_trace, face_traces, toe_trace
 from .vetting import concentrated_relief, vet, vet_against
 
-__all__ = ["Assessed", "assess", "choose_margins", "WEIGHTS", "EDGE_FACTOR", "DEFAULT_MIN_CONFIDENCE"]
+__all__ = ["Assessed", "assess", "choose_margins", "dropped_candidates", "WEIGHTS", "EDGE_FACTOR",
+           "DEFAULT_MIN_CONFIDENCE"]
 
 logger = logging.getLogger(__name__)
 
@@ -48,7 +49,7 @@ BREAK_PREFERENCE = 0.15
 DEFAULT_MIN_CONFIDENCE = 0.5
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, eq=False)
 class Assessed:
     """A candidate with its evidence, the rules against it and its confidence."""
 
@@ -107,14 +108,17 @@ def _span(a: Assessed, images):
     return lo - pad, hi + pad
 
 
-def choose_margins(images, assessed, *, min_confidence: float = DEFAULT_MIN_CONFIDENCE, notes=None) -> list:
+def choose_margins(images, assessed, *, min_confidence: float = DEFAULT_MIN_CONFIDENCE, dropped=None) -> list:
     """The margins among assessed candidates, ordered along the line.
 
-    Rejected candidates and those below ``min_confidence`` are dropped (the
-    notes say why, one line per slope); of candidates facing the same way
-    whose slopes overlap, the most confident is kept.
+    Rejected candidates and those below ``min_confidence`` are dropped; of
+    candidates facing the same way whose slopes overlap, the most confident
+    is kept; candidates beneath or above an accepted margin are dropped
+    (:func:`~clinometry.picking.vetting.vet_against`).  ``dropped``, a dict,
+    receives ``id(assessed) -> reason`` for every candidate no rule rejected
+    on its own but that was still not kept.
     """
-    notes = [] if notes is None else notes
+    dropped = {} if dropped is None else dropped
     kept = []
     # a reading with a distinct break is preferred to a ramp reading of the
     # same slope unless clearly less confident: a profile with a distinct
@@ -126,31 +130,41 @@ def choose_margins(images, assessed, *, min_confidence: float = DEFAULT_MIN_CONF
             logger.debug("%s rejected: %s", where, "; ".join(a.rejected))
             continue
         lo, hi = _span(a, images)
-        if any(k.direction == a.direction and min(hi, _span(k, images)[1]) > max(lo, _span(k, images)[0]) for k in kept):
+        same = [k for k in kept if k.direction == a.direction and min(hi, _span(k, images)[1]) > max(lo, _span(k, images)[0])]
+        if same:
+            dropped[id(a)] = (f"another reading of the margin with its steepest point at trace "
+                              f"{same[0].candidate.bends.steepest}")
             continue
         why = vet_against(c, kept, images)
         if why:
             logger.debug("%s dropped: %s", where, why)
+            dropped[id(a)] = why
             continue
         if a.confidence < min_confidence:
-            notes.append(f"{where} left out: confidence {a.confidence:.2f} below {min_confidence:.2f}")
+            dropped[id(a)] = f"confidence {a.confidence:.2f} below {min_confidence:.2f}"
             continue
         kept.append(a)
     return sorted(kept, key=lambda a: a.candidate.bends.steepest)
 
 
-def rejection_notes(assessed, margins, images, *, limit: int = 6) -> list[str]:
-    """One note per rejected slope not covered by a margin (the most confident first)."""
+def dropped_candidates(assessed, margins, images, dropped, *, limit: int = 6) -> list:
+    """The most confident dropped candidates not covered by a margin, one per slope: (Assessed, reason).
+
+    ``dropped`` is the dict :func:`choose_margins` filled.
+    """
     out = []
+    kept = {id(m) for m in margins}
     for a in sorted(assessed, key=lambda a: -a.confidence):
-        if not a.rejected:
+        if id(a) in kept:
+            continue
+        why = a.rejected[0] if a.rejected else dropped.get(id(a), "")
+        if not why:
             continue
         lo, hi = _span(a, images)
-        if any(m.direction == a.direction and min(hi, _span(m, images)[1]) > max(lo, _span(m, images)[0]) for m in margins):
+        if any(m.direction == a.direction and min(hi, _span(m, images)[1]) > max(lo, _span(m, images)[0])
+               for m in [*margins, *(o[0] for o in out)]):
             continue
-        c = a.candidate
-        out.append(f"candidate facing {c.direction} at trace {c.bends.steepest} (relief {a.relief_m:.0f} m, "
-                   f"steepest {c.bends.slope_max_deg:.1f} deg) dropped: {a.rejected[0]}")
+        out.append((a, why))
         if len(out) >= limit:
             break
     return out

@@ -32,9 +32,9 @@ import numpy as np
 from ..section import check_section
 from .candidates import propose_candidates, smooth_profile
 from .clinoforms import older_clinoforms
-from .decide import DEFAULT_MIN_CONFIDENCE, assess, choose_margins, rejection_notes
+from .decide import DEFAULT_MIN_CONFIDENCE, assess, choose_margins, dropped_candidates
 from .evidence._regions import top_traces
-from .picks import ClinoformPicks, Horizon, MarginPicks, PickPoint, Picks
+from .picks import ClinoformPicks, Horizon, MarginPicks, PickPoint, Picks, RejectedCandidate
 from .section_images import band_limited, prepare
 from .tracking import track_surfaces
 
@@ -148,8 +148,17 @@ def pick_default(
                                   n_surfaces=n_surfaces, dead=images.dead)
         candidates = propose_candidates(images, surfaces)
     assessed = [assess(images, c) for c in candidates]
-    chosen = choose_margins(images, assessed, min_confidence=min_confidence, notes=notes)
-    notes.extend(rejection_notes(assessed, chosen, images))
+    drops = {}
+    chosen = choose_margins(images, assessed, min_confidence=min_confidence, dropped=drops)
+    rejected = []
+    for a, why in dropped_candidates(assessed, chosen, images, drops):
+        c = a.candidate
+        notes.append(f"candidate facing {c.direction} at trace {c.bends.steepest} (relief {a.relief_m:.0f} m, "
+                     f"steepest {c.bends.slope_max_deg:.1f} deg) dropped: {why}")
+        tr = _profile_extent(images, a)
+        k = c.at(tr)
+        rejected.append(RejectedCandidate(c.direction, tr, images.z_of(c.z_index[k]), _point(images, c, c.bends.steepest),
+                                          why, round(float(a.confidence), 3)))
 
     horizons, margins = [], []
     next_id = 0
@@ -217,4 +226,4 @@ def pick_default(
     }
     logger.info("%s: %d surfaces, %d candidates, %d margin(s)", images.name, len(surfaces), len(candidates), len(margins))
     return Picks(horizons=tuple(horizons), margins=tuple(margins), picker="default", parameters=params,
-                 notes=tuple(notes))
+                 notes=tuple(notes), rejected=tuple(rejected))

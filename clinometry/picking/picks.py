@@ -16,7 +16,7 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-__all__ = ["Horizon", "PickPoint", "ClinoformPicks", "MarginPicks", "Picks", "HORIZON_ROLES"]
+__all__ = ["Horizon", "PickPoint", "ClinoformPicks", "MarginPicks", "RejectedCandidate", "Picks", "HORIZON_ROLES"]
 
 #: roles a horizon can play; ``reflector`` is any tracked surface not (yet)
 #: assigned to a margin.
@@ -133,6 +133,32 @@ class MarginPicks:
     notes: tuple = ()
 
 
+@dataclass(frozen=True, eq=False)
+class RejectedCandidate:
+    """A margin candidate the picker considered and dropped, for review.
+
+    Attributes
+    ----------
+    direction : {"+", "-"}
+    trace, z : numpy.ndarray, shape (n,)
+        Its profile (trace indices, z in section units) over the slope and a
+        little beyond.
+    steepest : PickPoint
+        Its steepest point.
+    reason : str
+        Why it is not a margin.
+    confidence : float
+        The confidence its evidence gave (0..1).
+    """
+
+    direction: str
+    trace: np.ndarray
+    z: np.ndarray
+    steepest: PickPoint
+    reason: str
+    confidence: float = 0.0
+
+
 @dataclass(frozen=True)
 class Picks:
     """What the picker found on one section.
@@ -148,6 +174,9 @@ class Picks:
         The picker's options, for the record.
     notes : tuple of str
         Decisions and reasons worth showing to a reviewer.
+    rejected : tuple of RejectedCandidate
+        The most confident candidates that were dropped, with the reason
+        (for the QC figure of a line with or without margins).
     """
 
     horizons: tuple = ()
@@ -155,6 +184,7 @@ class Picks:
     picker: str = ""
     parameters: dict = field(default_factory=dict)
     notes: tuple = ()
+    rejected: tuple = ()
 
     def horizon(self, horizon_id: int) -> Horizon:
         """The horizon with this id (KeyError if there is none)."""
