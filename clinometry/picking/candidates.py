@@ -381,6 +381,9 @@ class Candidate:
     polarity : str
         ``"peak"``, ``"trough"`` or ``"unknown"``: the wavelet lobe the
         profile follows.
+    inferred : numpy.ndarray of bool, shape (hi - lo,)
+        Picks continued along an imaged face's dip where the face is not
+        imaged (:mod:`~clinometry.picking.face_extension`).
     """
 
     direction: str
@@ -393,6 +396,7 @@ class Candidate:
     bends: Bends
     source_rank: int
     polarity: str = "unknown"
+    inferred: np.ndarray = None
 
     def at(self, trace):
         """Index into the window arrays of a trace index of the line."""
@@ -473,6 +477,7 @@ def _reextract(images, s, leg, b0):
 
     None when the re-extracted profile has no leg facing the same way there.
     """
+    from .face_extension import extend_faces
     from .tracking import path_through, refine, run_support
 
     img = images.cost
@@ -484,6 +489,9 @@ def _reextract(images, s, leg, b0):
     cells = path_through(pol_img, p, int(images.cells(s.z_index[p])), direction=leg.direction, lo=lo, hi=hi)
     zi, _ = refine(images.envelope[lo:hi], cells, img.factor, amplitude=images.amplitude, polarity=s.polarity,
                    rows=np.arange(lo, hi))
+    strength = 1.0 - pol_img.cost[lo:hi]
+    zi, inferred = extend_faces(zi, cells, strength, direction=leg.direction, period_samples=images.period_samples)
+    cells = np.where(inferred, images.cells(zi), cells)
     dep = images.depth_of(np.arange(lo, hi), zi)
     xw = images.distance_m[lo:hi]
     g = _local_legs(xw, dep, images.smoothing_m, images.min_relief_m, p - lo, leg.direction)
@@ -492,13 +500,13 @@ def _reextract(images, s, leg, b0):
         return None
     scale = "leg" if b0.sigma_traces > max(images.smoothing_m / images.dx_m, 0.5) + 1e-9 else "slope"
     bw = leg_bends(xw, dep, g, smoothing_m=images.smoothing_m, scale=scale)
-    strength = 1.0 - pol_img.cost[lo:hi]
     q = strength[np.arange(hi - lo), cells].astype(float)
     sup = run_support(strength, cells)
-    q[images.dead[lo:hi]] = 0.0
+    q[images.dead[lo:hi] | inferred] = 0.0
     sup[images.dead[lo:hi]] = 0.0
     return Candidate(direction=leg.direction, lo=lo, hi=hi, z_index=zi.astype(float), depth_m=dep,
-                     quality=q, support=sup, bends=_shift(bw, lo), source_rank=s.rank, polarity=s.polarity)
+                     quality=q, support=sup, bends=_shift(bw, lo), source_rank=s.rank, polarity=s.polarity,
+                     inferred=inferred)
 
 
 def _shift(b: Bends, lo: int) -> Bends:

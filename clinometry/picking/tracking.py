@@ -114,6 +114,9 @@ DIP_WEIGHT = VERTICAL_ANISOTROPY
 #: steepest step between neighbouring traces (well above the steepest
 #: carbonate slopes of about 60 deg, Kenter 1990, from memory)
 MAX_DIP_DEG = 80.0
+#: a surface of one polarity counts the other polarity at this fraction of
+#: its strength (our choice, no source)
+OTHER_POLARITY_WEIGHT = 0.5
 #: a step against a margin's direction costs this many times more (our
 #: choice, no source: allows back-tilted floors and jitter, not a climb
 #: onto the fill)
@@ -162,13 +165,19 @@ class CostImage:
 
         A surface of one polarity stays on its own wavelet lobe: along a
         steep face the envelope is one broad band, but the peak and trough
-        lobes alternate across it.  ``"unknown"`` (or no signed image) gives
-        the envelope cost.
+        lobes alternate across it.  The other polarity counts at
+        :data:`OTHER_POLARITY_WEIGHT` of its strength, so where the
+        reflection of a slope changes sign (the fill beside it changes its
+        impedance) the surface follows it on rather than jumping through
+        weak image.  ``"unknown"`` (or no signed image) gives the envelope
+        cost.
         """
         if self.signed is None or polarity not in ("peak", "trough"):
             return self
         sgn = np.float32(1.0 if polarity == "peak" else -1.0)
-        cost = np.subtract(np.float32(1.0), np.clip(sgn * self.signed, 0.0, 1.0)).astype(np.float32)
+        own = np.clip(sgn * self.signed, 0.0, 1.0)
+        other = np.clip(-sgn * self.signed, 0.0, 1.0)
+        cost = np.subtract(np.float32(1.0), own + np.float32(OTHER_POLARITY_WEIGHT) * other).astype(np.float32)
         return CostImage(cost, self.factor, self.vertical_m, self.scale, self.background, self.dip,
                          self.coherence, self.max_step, self.signed)
 

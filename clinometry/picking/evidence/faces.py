@@ -66,6 +66,9 @@ def _run_gaps(images, c, traces):
     cells = images.cells(c.z_index)
     k = np.asarray(traces) - c.lo
     k = k[k > 0]
+    if c.inferred is not None:
+        # continued picks are not evidence either way
+        k = k[~(c.inferred[k] | c.inferred[k - 1])]
     if k.size == 0:
         return float("nan")
     ref = float(np.median(strength[k + c.lo, cells[k]]))
@@ -114,8 +117,10 @@ def slope_face(images, c) -> Evidence:
     else:
         agreement = flat_share = float("nan")
     gaps = _run_gaps(images, c, tr[steep]) if steep.any() else float("nan")
+    inferred = float(np.mean(c.inferred[k])) if c.inferred is not None and k.size else 0.0
     vals = {
         "width_m": float(tr.size * images.dx_m),
+        "inferred_share": inferred,
         "gap_share": gaps,
         "support": float(np.mean(sup)) if sup.size else 0.0,
         "support_steep": float(np.mean(sup[steep])) if steep.any() else 0.0,
@@ -127,4 +132,5 @@ def slope_face(images, c) -> Evidence:
     score = mean_score([ramp(vals["support"], 0.3, 0.8), 1.0 - gaps, agreement])
     return Evidence("slope_face", score, vals,
                     f"slope face over {vals['width_m']:.0f} m: support {vals['support']:.2f}, dip agreement "
-                    f"{agreement:.2f} on {vals['n_dip']} picks, {100 * vals['aliased_share']:.0f}% aliased")
+                    f"{agreement:.2f} on {vals['n_dip']} picks, {100 * vals['aliased_share']:.0f}% aliased"
+                    + (f", {100 * inferred:.0f}% not imaged (continued along its imaged dip)" if inferred else ""))

@@ -1,0 +1,161 @@
+"""Slope faces the image shows only in part, continued along their imaged dip.
+
+A slope is not always imaged from break to toe.  Where the basin fill
+beside its lower part has the impedance of the slope deposits, the face
+has no reflection there, and a minimal path that followed its upper part
+drops straight down to the basin floor through weak image (or, where the
+upper part is dark, drops from the platform top onto the imaged lower
+part).  The relief of such a profile is right, but its slope and its toe
+(or break) are not: the drop is no slope.
+
+:func:`extend_faces` finds such drops -- a step of more than
+:data:`JUMP_PERIODS` dominant periods between neighbouring traces whose
+vertical run lies in a gap of the reflection -- next to a stretch of face
+imaged over at least :data:`MIN_IMAGED_STEPS` traces, and continues that
+stretch at its own dip (the median of its steps) until it meets the profile
+again: the basin floor below, or the platform top above.  A face is a
+stratal surface, and a planar or gently curved foreset keeps its dip
+downslope (Adams & Schlager 2000, from memory), so its continuation is the
+interpreter's reading of where the slope runs where it is not imaged.  The
+continued picks are marked, carry quality 0, and do not count as reflection
+evidence; the reflections that end against them (onlap) do
+(:mod:`~clinometry.picking.evidence.terminations`).
+
+References
+----------
+.. [1] Adams, E. W. & Schlager, W. (2000). Basic types of submarine slope
+   curvature. Journal of Sedimentary Research 70(4), 814-828. (from memory)
+"""
+
+from __future__ import annotations
+
+import numpy as np
+
+__all__ = ["extend_faces", "JUMP_PERIODS", "MIN_IMAGED_STEPS", "GAP_STRENGTH_FRACTION"]
+
+#: a step between neighbouring traces of more than this many dominant periods
+#: is a drop, not a slope, when its vertical run lies in a gap (our choice)
+JUMP_PERIODS = 0.5
+#: a face is imaged when it descends with reflection support over at least this
+#: many consecutive steps (our choice, no source)
+MIN_IMAGED_STEPS = 2
+#: a run is in a gap where its mean strength is below this fraction of the
+#: imaged face's (our choice, no source)
+GAP_STRENGTH_FRACTION = 0.5
+#: a face step descends by at least this many samples (less is the jitter of
+#: a flat top; our choice)
+MIN_FACE_STEP_SAMPLES = 0.5
+#: the imaged stretch may end this many steps before the drop (the face
+#: flattens a little where fill onlaps it; our choice)
+MAX_STALL_STEPS = 3
+#: a continuation is at most this many times longer (in traces) than the imaged
+#: stretch it continues (our choice, no source)
+MAX_EXTENSION_FACTOR = 4.0
+
+
+def _run_strength(strength, cells, i):
+    a, b = sorted((int(cells[i - 1]), int(cells[i])))
+    return float(np.mean(np.maximum(strength[i - 1, a : b + 1], strength[i, a : b + 1])))
+
+
+def extend_faces(z_index, cells, strength, *, direction: str, period_samples: float):
+    """Continue partly imaged slope faces across the drops of a profile.
+
+    Parameters
+    ----------
+    z_index : numpy.ndarray, shape (n,)
+        Sub-sample z index of the profile per trace of its window.
+    cells : numpy.ndarray of int, shape (n,)
+        Its cells in the cost image.
+    strength : numpy.ndarray, shape (n, n_cell)
+        Reflection strength (0..1) of the window, of the profile's polarity.
+    direction : {"+", "-"}
+        Basinward direction.
+    period_samples : float
+        Dominant period in samples.
+
+    Returns
+    -------
+    z : numpy.ndarray, shape (n,)
+        The profile with its drops replaced by the continued faces.
+    inferred : numpy.ndarray of bool, shape (n,)
+        Where the picks are continued, not picked.
+
+    Examples
+    --------
+    A face imaged over three steps of 2 samples, then a drop of 6 samples
+    onto a floor at 12:
+
+    >>> z = np.array([0, 0, 2, 4, 6, 12, 12, 12, 12], float)
+    >>> s = np.full((9, 30), 0.05); s[np.arange(9), z.astype(int)] = 1.0
+    >>> for i in range(1, 5): s[i, int(z[i - 1]):int(z[i]) + 1] = 1.0
+    >>> zz, inf = extend_faces(z, z.astype(int), s, direction="+", period_samples=8)
+    >>> zz.tolist(), inf.astype(int).tolist()
+    ([0.0, 0.0, 2.0, 4.0, 6.0, 8.0, 10.0, 12.0, 12.0], [0, 0, 0, 0, 0, 1, 1, 0, 0])
+    """
+    z = np.asarray(z_index, dtype=float).copy()
+    c = np.asarray(cells)
+    s = np.asarray(strength)
+    n = z.size
+    inferred = np.zeros(n, bool)
+    if n < 3:
+        return z, inferred
+    if direction == "-":  # orient basinward along increasing index
+        zz, inf = extend_faces(z[::-1], c[::-1], s[::-1], direction="+", period_samples=period_samples)
+        return zz[::-1], inf[::-1]
+    step = np.diff(z)
+    run = np.array([_run_strength(s, c, i) for i in range(1, n)])
+    jump_h = JUMP_PERIODS * period_samples
+    down = step > 0
+    # reference strength of the imaged face: the steps that descend by half
+    # a sample or more (not the jitter of a flat top) and are not drops
+    face_steps = (step >= MIN_FACE_STEP_SAMPLES) & (step <= jump_h)
+    ref = float(np.median(run[face_steps])) if face_steps.any() else 0.0
+    if ref <= 0:
+        return z, inferred
+    ok_step = face_steps & (run >= GAP_STRENGTH_FRACTION * ref)
+    drops = np.flatnonzero(down & (step > jump_h) & (run < GAP_STRENGTH_FRACTION * ref))
+    for j in drops:  # step j joins trace j to trace j + 1
+        if inferred[j + 1]:
+            continue
+        # imaged face above the drop: consecutive supported steps ending
+        # within MAX_STALL_STEPS of it (the face may flatten where fill onlaps it)
+        e = j - 1
+        while e >= 0 and j - 1 - e < MAX_STALL_STEPS and not ok_step[e]:
+            e -= 1
+        k = e
+        while k >= 0 and ok_step[k]:
+            k -= 1
+        above = np.arange(k + 1, e + 1)
+        if above.size >= MIN_IMAGED_STEPS:
+            d = float(np.median(step[above]))
+            a0 = e + 1  # the trace the imaged stretch ends on
+            end = a0 + int(MAX_EXTENSION_FACTOR * above.size)
+            t = a0 + 1
+            while t < min(n, end + 1) and z[a0] + d * (t - a0) < z[t]:
+                t += 1
+            if t < n and t > j and z[a0] + d * (t - a0) >= z[t]:
+                fill = np.arange(a0 + 1, t)
+                z[fill] = z[a0] + d * (fill - a0)
+                inferred[fill] = True
+                continue
+        # imaged face below the drop: consecutive supported steps starting
+        # within MAX_STALL_STEPS of it
+        b0 = j + 1
+        while b0 < n - 1 and b0 - j - 1 < MAX_STALL_STEPS and not ok_step[b0]:
+            b0 += 1
+        k = b0
+        while k < n - 1 and ok_step[k]:
+            k += 1
+        below = np.arange(b0, k)
+        if below.size >= MIN_IMAGED_STEPS:
+            d = float(np.median(step[below]))
+            start = b0 - int(MAX_EXTENSION_FACTOR * below.size)
+            t = b0 - 1
+            while t > max(-1, start - 1) and z[b0] - d * (b0 - t) > z[t]:
+                t -= 1
+            if t >= 0 and t < j + 1 and z[b0] - d * (b0 - t) <= z[t]:
+                fill = np.arange(t + 1, b0)
+                z[fill] = z[b0] - d * (b0 - fill)
+                inferred[fill] = True
+    return z, inferred
