@@ -36,7 +36,8 @@ from .decide import DEFAULT_MIN_CONFIDENCE, assess, choose_margins, dropped_cand
 from .evidence._regions import top_traces
 from .picks import ClinoformPicks, Horizon, MarginPicks, PickPoint, Picks, RejectedCandidate
 from .section_images import band_limited, prepare
-from .tracking import track_surfaces
+from .face_seeds import face_surfaces
+from .tracking import seeded_surfaces, track_surfaces
 
 __all__ = ["pick_default", "DEFAULT_MIN_CONFIDENCE"]
 
@@ -146,6 +147,9 @@ def pick_default(
     else:
         surfaces = track_surfaces(images.envelope, images.positive, images.cost, period_samples=images.period_samples,
                                   n_surfaces=n_surfaces, dead=images.dead)
+        surfaces += seeded_surfaces(images.envelope, images.positive, images.cost, surfaces,
+                                    period_samples=images.period_samples, dead=images.dead)
+        surfaces += face_surfaces(images, existing=surfaces)
         candidates = propose_candidates(images, surfaces)
     assessed = [assess(images, c) for c in candidates]
     drops = {}

@@ -85,6 +85,7 @@ __all__ = [
     "minimal_path",
     "track_surfaces",
     "path_through",
+    "seeded_surfaces",
     "NORMALISING_PERCENTILE",
     "CELLS_PER_PERIOD",
     "VERTICAL_ANISOTROPY",
@@ -464,6 +465,58 @@ def track_surfaces(envelope, positive, image: CostImage, *, period_samples: floa
         cost[np.broadcast_to(rows[:, None], band.shape), band] = 1.0
         if np.all(cost >= 1.0):
             break
+    return out
+
+
+def seeded_surfaces(envelope, positive, image: CostImage, surfaces, *, period_samples: float, n_seeds: int = 6,
+                    min_strength: float = 0.5, dead=None) -> list[Surface]:
+    """Surfaces through the strongest reflections that no tracked surface covers.
+
+    A surface across the whole line takes the best route over its whole
+    length, so a short, strong reflection off that route -- the top of a
+    mound or a small platform, bounded by flanks on both sides -- may lie on
+    none of them.  Each seed is the strongest cell farther than half a
+    period from every surface so far (at least ``min_strength``); its
+    surface is the minimal path through it (:func:`path_through`, both ways
+    to the line ends).
+
+    Returns
+    -------
+    list of Surface
+        Ranks continue after ``surfaces``.
+    """
+    n, m = image.cost.shape
+    rows = np.arange(n)
+    dead = np.zeros(n, bool) if dead is None else np.asarray(dead, bool)
+    residual = 1.0 - image.cost.copy()
+    residual[dead] = 0.0
+    half = max(1, int(round(0.5 * period_samples / image.factor)))
+    offsets = np.arange(-half, half + 1)
+
+    def suppress(cells):
+        band = np.clip(cells[:, None] + offsets[None, :], 0, m - 1)
+        residual[np.broadcast_to(rows[:, None], band.shape), band] = 0.0
+
+    for srf in surfaces:
+        suppress(np.clip((srf.z_index // image.factor).astype(np.int64), 0, m - 1))
+    out = []
+    rank = max((s_.rank for s_ in surfaces), default=-1) + 1
+    strength = 1.0 - image.cost
+    for _ in range(int(n_seeds)):
+        flat = int(np.argmax(residual))
+        t, cell = divmod(flat, m)
+        if residual[t, cell] < min_strength:
+            break
+        cells = path_through(image, t, cell)
+        q = strength[rows, cells].astype(np.float64)
+        support = run_support(strength, cells)
+        q[dead] = 0.0
+        support[dead] = 0.0
+        zi, best = refine(envelope, cells, image.factor)
+        out.append(Surface(z_index=zi.astype(np.float64), quality=q, support=support,
+                           polarity=_polarity(positive, rows, best, q), rank=rank))
+        rank += 1
+        suppress(cells)
     return out
 
 
