@@ -48,13 +48,14 @@ SLOPE_QUANTUM_DEG = 1.0
 #: :func:`foreset_slope_deg`)
 SLOPE_MAX_QUANTILE = 0.8
 
-#: half-width of the "flat" trajectory band when the picks resolve better,
-#: degrees (chosen here: ~one 2.5 m depth sample over 1.5 km of progradation;
-#: classes by sign after Helland-Hansen & Martinsen 1996, J. Sed. Res. 66:
-#: 670-688, from memory).  The truth's breaks are exact, so there the
-#: tolerance alone applies; the metric widens the band to the angle's pick
-#: uncertainty.
-TRAJECTORY_FLAT_DEG = 0.1
+#: half-width of the "flat" shelf-break trajectory band, degrees: a break that
+#: rises or falls by less than about 2 deg while it builds out -- 35 m over
+#: 1 km of progradation, close to the depth error of breaks picked on seismic
+#: -- is read as building out at one level (classes by sign after
+#: Helland-Hansen & Martinsen 1996, J. Sed. Res. 66: 670-688, from memory; the
+#: band is our choice).  The measured trajectory is ascending or descending
+#: only where its whole P10-P90 range lies beyond the band.
+TRAJECTORY_FLAT_DEG = 2.0
 
 
 def slope_base_length_m(trace_spacing_m: float, depth_sample_m: float | None, mean_gradient=None, *,

@@ -241,20 +241,12 @@ def classify_rules(metrics, *, thresholds=None) -> Classification:
         f"max slope {slope:.1f}° against Kenter (1990) bounds: mud-dominated below {t['fabric_mud_max_deg']:.0f}°, "
         f"grain-dominated up to {t['fabric_grain_max_deg']:.0f}°, steeper needs rubble or framework (from memory)")
     traj = m.get("trajectory")
-    if isinstance(traj, dict) and _num(traj, "angle_deg") is not None:
-        a = float(traj["angle_deg"])
-        sigma = _num(traj, "angle_sigma_deg")
-        band = max(t["trajectory_flat_deg"], P10_P90_SIGMAS * sigma if sigma is not None else 0.0)
-        if sigma is None and traj.get("sign_resolved") is not None:
-            cls = ("ascending" if a > 0 else "descending") if traj["sign_resolved"] else "flat"
-        else:
-            cls = "flat" if abs(a) <= band else ("ascending" if a > 0 else "descending")
-        hints["trajectory_class"] = cls
-        spread = (f" (the larger of the tolerance ±{t['trajectory_flat_deg']:.2f}° and 1.28 times the "
-                  f"angle's uncertainty {sigma:.2f}° from the break picks)") if sigma is not None else ""
-        hints["trajectory_reason"] = (
-            f"shelf-break trajectory {a:.2f}° is {cls} with the flat band ±{band:.2f}°{spread} "
-            f"({_cite('trajectory_flat_deg')})")
+    if isinstance(traj, dict) and _num(traj, "angle_deg") is not None and traj.get("class"):
+        # the metric's class follows the angle's P10-P90 interval against the
+        # flat band (clinometry.metrics.trajectory.interval_class)
+        hints["trajectory_class"] = traj["class"]
+        hints["trajectory_reason"] = (f"shelf-break trajectory {float(traj['angle_deg']):.2f}°: "
+                                      f"{traj.get('class_reason', '')} ({_cite('trajectory_flat_deg')})")
     return Classification(
         family=family,
         subtype=subtype,

@@ -102,6 +102,11 @@ P10_P90_SIGMAS = 1.2815515655446004
 #: without a trajectory and lowered the class agreement at every SNR (our
 #: measurement, no source)
 MIN_DIP_FIELD_BREAKS = 2
+#: a trajectory steeper than this is rejected as a pick error: the shelf break
+#: of a prograding margin builds out faster than it climbs, and even strongly
+#: aggrading margins and build-ups climb at a few tens of degrees at most
+#: (our choice, no source)
+MAX_TRAJECTORY_DEG = 60.0
 #: median absolute deviation -> standard deviation of a normal distribution,
 #: 1 / Phi^-1(3/4) (Rousseeuw & Croux 1993, from memory)
 MAD_TO_SIGMA = 1.482602218505602
@@ -116,6 +121,46 @@ def _t90(dof):
 
 def _angle(aggradation, progradation):
     return float(np.degrees(np.arctan2(aggradation, abs(progradation))))
+
+
+def interval_class(angle, p10, p90, flat_deg, *, resolved=True, aggr=0.0, depth_sigma_m=0.0):
+    """Trajectory class from the P10-P90 interval of the angle, and its reason.
+
+    ``ascending`` only where the whole interval lies above the flat band
+    ``+-flat_deg``, ``descending`` only where it lies below it, ``flat``
+    where it lies within it; an interval that straddles the band's edge is
+    named for both classes it spans (``flat_or_ascending``,
+    ``flat_or_descending``), and one that spans the whole band is
+    ``unresolved``.  Breaks all on one trace (no interval) give a vertical
+    path when ``resolved``.
+
+    Examples
+    --------
+    >>> interval_class(5.0, 3.0, 7.0, 2.0)[0], interval_class(3.0, 1.0, 5.0, 2.0)[0]
+    ('ascending', 'flat_or_ascending')
+    >>> interval_class(0.5, -1.0, 1.5, 2.0)[0], interval_class(0.0, -6.0, 6.0, 2.0)[0]
+    ('flat', 'unresolved')
+    """
+    band = float(flat_deg)
+    if p10 is None or p90 is None:
+        if resolved:
+            cls = "ascending" if angle > 0 else "descending"
+            return cls, (f"all breaks on one trace, {abs(aggr):.1f} m apart in depth (more than 1.28 * sqrt(2) "
+                         f"depth errors of {depth_sigma_m:.1f} m): a vertical path, pure "
+                         f"{'aggradation' if aggr > 0 else 'fall'}")
+        return "flat", "breaks on one trace; depth change within the pick error"
+    where = f"P10-P90 {p10:.1f} to {p90:.1f} deg against the flat band +-{band:.1f} deg"
+    if p10 > band:
+        return "ascending", f"{where}: the whole range rises more steeply than the band"
+    if p90 < -band:
+        return "descending", f"{where}: the whole range falls more steeply than the band"
+    if p10 >= -band and p90 <= band:
+        return "flat", f"{where}: the whole range lies within the band"
+    if p10 < -band and p90 > band:
+        return "unresolved", f"{where}: the range spans the band, the breaks do not tell the class"
+    if p90 > band:
+        return "flat_or_ascending", f"{where}: the range straddles the band's upper edge"
+    return "flat_or_descending", f"{where}: the range straddles the band's lower edge"
 
 
 def trajectory_from_breaks(basinward_m, depth_m, *, flat_deg: float = TRAJECTORY_FLAT_DEG,
@@ -178,12 +223,12 @@ def trajectory_from_breaks(basinward_m, depth_m, *, flat_deg: float = TRAJECTORY
 
     Examples
     --------
-    >>> t = trajectory_from_breaks([0.0, 1000.0], [300.0, 282.5])
+    >>> t = trajectory_from_breaks([0.0, 1000.0], [300.0, 230.0])
     >>> round(t["angle_deg"], 3), t["class"]
-    (1.003, 'ascending')
+    (4.004, 'ascending')
     >>> t = trajectory_from_breaks([0.0, 400.0], [300.0, 297.5], depth_sigma_m=2.5)
-    >>> round(t["angle_deg"], 2), round(t["flat_band_deg"], 2), t["class"]
-    (0.36, 0.65, 'flat')
+    >>> round(t["angle_deg"], 2), t["class"]
+    (0.36, 'flat')
     """
     b = np.asarray(basinward_m, dtype=float)
     d = np.asarray(depth_m, dtype=float)
@@ -229,21 +274,7 @@ def trajectory_from_breaks(basinward_m, depth_m, *, flat_deg: float = TRAJECTORY
         resolved = abs(aggr) > z * np.sqrt(2.0) * depth_sigma_m and aggr != 0
         if not resolved:
             angle = 0.0 if aggr == 0 else angle
-    if resolved and sigma is None:
-        cls = "ascending" if angle > 0 else "descending"
-        why = (f"all breaks on one trace, {abs(aggr):.1f} m apart in depth (more than 1.28 * sqrt(2) depth "
-               f"errors of {depth_sigma_m:.1f} m): a vertical path, pure {'aggradation' if aggr > 0 else 'fall'}")
-    elif resolved:
-        cls = "ascending" if angle > 0 else "descending"
-        why = (f"angle {angle:.2f}° is outside the flat band ±{band:.2f}° "
-               + ("(the tolerance)" if band == flat_deg else "(the P10-P90 half-width of the angle from the pick errors and the scatter of the breaks)"))
-    else:
-        cls = "flat"
-        why = (f"angle {angle:.2f}° is within the flat band ±{band:.2f}° "
-               + ("(the tolerance)" if band == flat_deg and sigma is not None else
-                  "(the P10-P90 half-width of the angle from the pick errors and the scatter of the breaks)" if sigma is not None else
-                  "(breaks on one trace; depth change within the pick error)")
-               + ": no rise or fall the breaks can resolve")
+    cls, why = interval_class(angle, p10, p90, flat_deg, resolved=resolved, aggr=aggr, depth_sigma_m=depth_sigma_m)
     steps = [_angle(d[i] - d[i + 1], b[i + 1] - b[i]) for i in range(b.size - 1)]
     return {
         "angle_deg": angle,
@@ -346,6 +377,11 @@ def trajectory_metrics(geometry, *, flat_deg: float = TRAJECTORY_FLAT_DEG, pick_
         depth_sigma_m=pick_sigma_samples * geometry.depth_sample_m,
         position_sigma_m=pick_sigma_traces * geometry.trace_spacing_m,
         velocity_sigma_fraction=velocity_sigma_fraction if geometry.domain == "twt" else 0.0)
+    if abs(t["angle_deg"]) > MAX_TRAJECTORY_DEG:
+        return {"trajectory": None, "missing": {"trajectory": (
+            f"the breaks give a trajectory of {t['angle_deg']:.0f} deg, steeper than {MAX_TRAJECTORY_DEG:.0f} deg: "
+            "not a shelf-break path (the break would climb faster than it builds out by a factor above 1.7), "
+            "a pick error of the older breaks")}}
     t["breaks"] = [geometry.pick_point(p) for p in brks]
     used, source = _trajectory_clinoforms(geometry)
     t["break_source"] = source

@@ -50,7 +50,7 @@ MIN_FACE_STEP_SAMPLES = 0.5
 MAX_STALL_STEPS = 3
 #: a continuation is at most this many times longer (in traces) than the imaged
 #: stretch it continues (our choice, no source)
-MAX_EXTENSION_FACTOR = 4.0
+MAX_EXTENSION_FACTOR = 2.0
 
 
 def _run_strength(strength, cells, i):

@@ -12,8 +12,8 @@ guard against:
 * :func:`staircase`: a profile that steps from one flat reflector to another
   through weak image or across layering that continues (a jump between
   reflectors);
-* :func:`drape`: a bend of a surface with reflections parallel to it above
-  and below (drape or compaction over older relief, a fold);
+* :func:`fold`: a bend that the layers beneath it share (a fold, a tilted
+  fault block);
 * :func:`too_small`: relief below the seismic resolution;
 * :func:`jitter`: a slope narrower than the lateral resolution of the
   picks (pick jitter, a single-trace step);
@@ -41,8 +41,8 @@ __all__ = [
     "regional_dip",
     "staircase",
     "cuts_layering",
+    "unimaged_face",
     "implausible_slope",
-    "drape",
     "fold",
     "too_small",
     "jitter",
@@ -63,6 +63,9 @@ NOISE_CORRELATION = 0.5
 MIN_DIP_READINGS = 5
 CUTS_AGREEMENT = 0.25
 CUTS_FLAT_SHARE = 0.5
+#: at most this share of a slope's traces may be continued rather than
+#: imaged (our choice, no source)
+MAX_INFERRED_SHARE = 0.6
 #: steepest slope of a margin, degrees: above the ~60 deg of framework-built
 #: carbonate slopes (Kenter 1990, from memory) with room for the slope error
 MAX_SLOPE_DEG = 70.0
@@ -79,8 +82,8 @@ STAIRCASE_GAP_SHARE = 0.5
 #: ... or when the layering landward and basinward correlates this well at the
 #: same level (the layers continue across the step; our choice, no source)
 STAIRCASE_LAYERING = 0.85
-#: reflections above a slope are parallel to it (drape) when at most this share
-#: of them is discordant (our choice, no source) ...
+#: reflections beside a slope are parallel to it when at most this share of
+#: them is discordant (our choice, no source) ...
 DRAPE_MAX_DISCORDANT = 0.25
 #: ... read on at least this many coherent cells
 DRAPE_MIN_CELLS = 10
@@ -177,6 +180,20 @@ def cuts_layering(face):
     return None
 
 
+def unimaged_face(face):
+    """A slope that is mostly not imaged: continued over more than :data:`MAX_INFERRED_SHARE` of it.
+
+    Guards against a drop of the profile through weak image that a short
+    dipping stretch next to it made look like a slope (see
+    :mod:`~clinometry.picking.face_extension`).
+    """
+    share = _v(face, "inferred_share", 0.0)
+    if share > MAX_INFERRED_SHARE:
+        return (f"{100 * share:.0f}% of the slope is not imaged (continued along the dip of the rest): too little "
+                "of it is seen to call it a slope")
+    return None
+
+
 def implausible_slope(slope_max_deg):
     """A slope steeper than depositional slopes stand.
 
@@ -188,20 +205,6 @@ def implausible_slope(slope_max_deg):
     if slope_max_deg > MAX_SLOPE_DEG:
         return (f"the slope dips {slope_max_deg:.0f} deg, steeper than the {MAX_SLOPE_DEG:.0f} deg carbonate slopes "
                 "stand at: a fault or a jump of the picks, not a slope")
-    return None
-
-
-def drape(onlap):
-    """Reflections above the slope that run parallel to it: drape, compaction relief or a fold.
-
-    Guards against the bends of overburden reflectors above a mound or a
-    margin, and against folds: a margin's slope has the basin fill lapping
-    onto it.
-    """
-    above, n_above = _v(onlap, "above_discordant"), _v(onlap, "n_above", 0.0)
-    if math.isfinite(above) and n_above >= DRAPE_MIN_CELLS and above <= DRAPE_MAX_DISCORDANT:
-        return (f"the reflections above the slope run parallel to it ({100 * (1 - above):.0f}% concordant): "
-                "drape or a fold, not a margin")
     return None
 
 
@@ -324,8 +327,8 @@ def vet(evidence: dict, images, *, slope_max_deg, relief_m, min_relief_m, n_slop
         regional_dip(top, slope_max_deg),
         staircase(face, char),
         cuts_layering(face),
+        unimaged_face(face),
         implausible_slope(slope_max_deg),
-        drape(onl),
         fold(onl, char),
         too_small(relief_m, min_relief_m),
         jitter(n_slope_traces) if has_break else None,

@@ -129,7 +129,8 @@ def slope_face(images, c) -> Evidence:
         "n_dip": int(readable.sum()),
         "aliased_share": float(np.mean(aliased[steep])) if steep.any() else 0.0,
     }
-    score = mean_score([ramp(vals["support"], 0.3, 0.8), 1.0 - gaps, agreement])
+    # a face continued where it is not imaged is weaker evidence of itself
+    score = mean_score([ramp(vals["support"], 0.3, 0.8), 1.0 - gaps, agreement]) * (1.0 - 0.5 * inferred)
     return Evidence("slope_face", score, vals,
                     f"slope face over {vals['width_m']:.0f} m: support {vals['support']:.2f}, dip agreement "
                     f"{agreement:.2f} on {vals['n_dip']} picks, {100 * vals['aliased_share']:.0f}% aliased"
