@@ -6,7 +6,8 @@ in the section's units), matches x/y points to the nearest trace within a
 tolerance, and refuses anything it cannot place with a message naming the
 file, row and column.  :func:`picks_from_horizon` then finds direction,
 shelf break and toe on that horizon with the picking step's own margin
-analysis (:func:`clinometry.picking.margins.profile_candidates`), so a
+analysis (:func:`clinometry.picking.candidates.find_legs` and
+    :func:`~clinometry.picking.candidates.leg_readings`), so a
 user horizon and an automatic pick are measured the same way.
 
 :func:`pick_from_horizons` joins the two as a picker plugin like any other
@@ -49,6 +50,9 @@ USER_HORIZON_SMOOTHING_TRACES = 3.0
 #: smallest break-to-toe relief that makes a leg of a user horizon a margin,
 #: m (project choice, no source)
 USER_HORIZON_MIN_RELIEF_M = 20.0
+#: confidence of a margin on an interpreter's horizon without a distinct break
+#: or toe (a ramp or a gradual bend; our choice, no source)
+USER_HORIZON_GRADUAL_CONFIDENCE = 0.8
 
 #: how far (in median trace spacings) an x/y horizon point may lie from the
 #: nearest trace before it is refused: one spacing (common practice, no source)
@@ -98,7 +102,8 @@ def picks_from_horizon(horizon: Horizon, section, model, *, smoothing_m=None, mi
     The horizon is interpolated linearly onto every trace of its span (the
     interpreter's line between picks), converted to depth with the run's
     velocity model (:func:`clinometry.depth.to_depth`), and handed to
-    :func:`clinometry.picking.margins.profile_candidates`, the same break /
+    :func:`clinometry.picking.candidates.find_legs` and
+    :func:`~clinometry.picking.candidates.leg_readings`, the same break /
     toe / direction analysis the automatic picker applies to each tracked
     surface.  Each accepted candidate becomes one margin whose only
     clinoform is the horizon itself.
@@ -119,7 +124,7 @@ def picks_from_horizon(horizon: Horizon, section, model, *, smoothing_m=None, mi
     -------
     Picks
     """
-    from .picking.margins import profile_candidates
+    from .picking.candidates import find_legs, leg_readings
     from .picking.picks import ClinoformPicks, MarginPicks, PickPoint
 
     horizon = replace(horizon, role="user") if horizon.role != "user" else horizon
@@ -134,21 +139,22 @@ def picks_from_horizon(horizon: Horizon, section, model, *, smoothing_m=None, mi
     depth = to_depth(section, traces, z, model)
     params = {"horizon_id": horizon.id, "n_points": len(horizon), "smoothing_m": float(smoothing_m),
               "min_relief_m": float(min_relief_m)}
-    cands = profile_candidates(dist, depth, np.ones(traces.size), path_rank=0,
-                               smoothing_m=float(smoothing_m), min_relief_m=float(min_relief_m))
     margins = []
-    for c in cands:
+    for leg in find_legs(dist, depth, smoothing_m=float(smoothing_m), min_relief_m=float(min_relief_m)):
+        # the slope-scale reading when it has a sharp break, else the leg-scale one (a ramp)
+        c = leg_readings(dist, depth, leg, smoothing_m=float(smoothing_m), min_relief_m=float(min_relief_m))[0]
         brk = PickPoint(int(traces[c.shelf_break]), float(z[c.shelf_break])) if c.shelf_break is not None else None
         toe = PickPoint(int(traces[c.toe]), float(z[c.toe])) if c.toe is not None else None
         margins.append(
             MarginPicks(
-                direction=c.direction,
+                direction=leg.direction,
                 profile_id=horizon.id,
                 platform_top_id=horizon.id,
                 shelf_break=brk,
                 toe=toe,
                 clinoforms=(ClinoformPicks(horizon.id, brk, toe, c.break_reason, c.toe_reason),),
-                confidence=float(c.confidence),
+                # the interpreter drew it: the geometry alone, full where break and toe are distinct
+                confidence=1.0 if brk is not None and toe is not None else USER_HORIZON_GRADUAL_CONFIDENCE,
                 break_reason=c.break_reason,
                 toe_reason=c.toe_reason,
                 notes=("margin found on the interpreter's horizon",),

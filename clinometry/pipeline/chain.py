@@ -344,7 +344,7 @@ def measure_horizon(horizon, section, options: AnalysisOptions | None = None, **
     -----
     The horizon is interpolated onto every trace of its span and converted
     to depth; direction, break and toe are then found with
-    :func:`clinometry.picking.margins.profile_candidates`, the same analysis
+    :func:`clinometry.picking.candidates.leg_readings`, the same analysis
     the automatic picker applies to its own surfaces.
 
     Examples
