@@ -14,7 +14,7 @@ from __future__ import annotations
 import numpy as np
 from numba import njit
 
-__all__ = ["dp_forward", "backtrack"]
+__all__ = ["dp_forward", "backtrack", "run_means"]
 
 
 @njit(cache=True, nogil=True)
@@ -103,3 +103,28 @@ def backtrack(back, z_end):
         z = back[i, z]
         path[i - 1] = z
     return path
+
+
+@njit(cache=True, nogil=True)
+def run_means(strength, path):
+    """Mean over each step's vertical run of the stronger of the two traces' strengths.
+
+    ``out[i]`` for the step from row ``i - 1`` to row ``i`` (cells between
+    ``path[i - 1]`` and ``path[i]``, both included); ``out[0]`` is the
+    strength at the first pick.
+    """
+    n = path.size
+    out = np.empty(n)
+    out[0] = strength[0, path[0]]
+    for i in range(1, n):
+        a = path[i - 1]
+        b = path[i]
+        if a > b:
+            a, b = b, a
+        s = 0.0
+        for z in range(a, b + 1):
+            u = strength[i - 1, z]
+            v = strength[i, z]
+            s += u if u > v else v
+        out[i] = s / (b - a + 1)
+    return out

@@ -455,21 +455,32 @@ def propose_candidates(images, surfaces) -> list[Candidate]:
     rows = np.arange(images.n_trace)
     out = []
     seen = []
+    tried = []
     for s in surfaces:
         d = images.depth_of(rows, s.z_index)
         for leg in find_legs(x, d, smoothing_m=images.smoothing_m, min_relief_m=images.min_relief_m):
             for b0 in leg_readings(x, d, leg, smoothing_m=images.smoothing_m, min_relief_m=images.min_relief_m):
+                # a reading whose slope another surface already gave is not extracted again
+                pre = (leg.direction, b0.steepest, float(s.z_index[b0.steepest]), b0.shelf_break is None)
+                if any(_same(k, pre, images) for k in tried):
+                    continue
+                tried.append(pre)
                 cand = _reextract(images, s, leg, b0)
                 if cand is None:
                     continue
                 key = (cand.direction, cand.bends.steepest, float(cand.z_index[cand.at(cand.bends.steepest)]),
                        cand.bends.shelf_break is None)
-                if any(k[0] == key[0] and k[3] == key[3] and abs(k[1] - key[1]) <= max(2.0, images.wavelength_m / images.dx_m)
-                       and abs(k[2] - key[2]) <= images.period_samples for k in seen):
+                if any(_same(k, key, images) for k in seen):
                     continue
                 seen.append(key)
                 out.append(cand)
     return out
+
+
+def _same(a, b, images):
+    """Two readings (direction, steepest trace, z index there, rampness) of one slope."""
+    return (a[0] == b[0] and a[3] == b[3] and abs(a[1] - b[1]) <= max(2.0, images.wavelength_m / images.dx_m)
+            and abs(a[2] - b[2]) <= images.period_samples)
 
 
 def _reextract(images, s, leg, b0):

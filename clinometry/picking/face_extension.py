@@ -31,6 +31,8 @@ from __future__ import annotations
 
 import numpy as np
 
+from ._kernels import run_means
+
 __all__ = ["extend_faces", "JUMP_PERIODS", "MIN_IMAGED_STEPS", "GAP_STRENGTH_FRACTION"]
 
 #: a step between neighbouring traces of more than this many dominant periods
@@ -51,11 +53,6 @@ MAX_STALL_STEPS = 3
 #: a continuation is at most this many times longer (in traces) than the imaged
 #: stretch it continues (our choice, no source)
 MAX_EXTENSION_FACTOR = 2.0
-
-
-def _run_strength(strength, cells, i):
-    a, b = sorted((int(cells[i - 1]), int(cells[i])))
-    return float(np.mean(np.maximum(strength[i - 1, a : b + 1], strength[i, a : b + 1])))
 
 
 def extend_faces(z_index, cells, strength, *, direction: str, period_samples: float):
@@ -104,7 +101,7 @@ def extend_faces(z_index, cells, strength, *, direction: str, period_samples: fl
         zz, inf = extend_faces(z[::-1], c[::-1], s[::-1], direction="+", period_samples=period_samples)
         return zz[::-1], inf[::-1]
     step = np.diff(z)
-    run = np.array([_run_strength(s, c, i) for i in range(1, n)])
+    run = run_means(np.ascontiguousarray(s, dtype=np.float32), np.ascontiguousarray(c, dtype=np.int64))[1:]
     jump_h = JUMP_PERIODS * period_samples
     down = step > 0
     # reference strength of the imaged face: the steps that descend by half

@@ -76,7 +76,7 @@ import numpy as np
 
 from ._blocks import pool_cells, quantile_sample
 from ._kernels import backtrack as _backtrack_kernel
-from ._kernels import dp_forward
+from ._kernels import dp_forward, run_means
 
 __all__ = [
     "Surface",
@@ -112,9 +112,10 @@ VERTICAL_FLOOR = 0.05
 #: coherence (a surface follows its own reflection and does not cut across
 #: coherent layering; our choice, no source)
 DIP_WEIGHT = VERTICAL_ANISOTROPY
-#: steepest step between neighbouring traces (well above the steepest
-#: carbonate slopes of about 60 deg, Kenter 1990, from memory)
-MAX_DIP_DEG = 80.0
+#: steepest step between neighbouring traces: above the steepest slope a
+#: margin may have (``vetting.MAX_SLOPE_DEG``, 70 deg; carbonate slopes reach
+#: about 60 deg, Kenter 1990, from memory)
+MAX_DIP_DEG = 72.0
 #: a surface of one polarity counts the other polarity at this fraction of
 #: its strength (our choice, no source)
 OTHER_POLARITY_WEIGHT = 0.5
@@ -362,16 +363,10 @@ def _factors(direction):
 
 def run_support(strength, path):
     """Mean strength along each step: the pick and the vertical run from the previous pick."""
-    n = path.size
-    out = np.empty(n, dtype=np.float64)
-    out[0] = strength[0, path[0]]
-    for i in range(1, n):
-        a, b = sorted((int(path[i - 1]), int(path[i])))
-        if b - a <= 1:
-            out[i] = strength[i, path[i]]
-        else:
-            run = np.maximum(strength[i - 1, a : b + 1], strength[i, a : b + 1])
-            out[i] = float(np.mean(run))
+    path = np.ascontiguousarray(path, dtype=np.int64)
+    out = run_means(np.ascontiguousarray(strength, dtype=np.float32), path)
+    small = np.r_[True, np.abs(np.diff(path)) <= 1]
+    out[small] = strength[np.arange(path.size), path][small]
     return out
 
 
