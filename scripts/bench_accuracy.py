@@ -191,7 +191,8 @@ def match(truth_margins, picked):
     """Index of the matched pick for each true margin (None when missed); each pick used once.
 
     The nearest unused pick facing the same way (by its break; for a ramp by
-    its break or toe) is taken, and kept only when it lies in the window of
+    its break or toe, and first a pick with neither, matched by direction
+    alone) is taken, and kept only when it lies in the window of
     :func:`_window`.  Matching is by position along the line only (as the
     original table did): a drape reflector picked above a buried flank
     counts as found, and shows as a slope, relief and family error.
@@ -207,6 +208,10 @@ def match(truth_margins, picked):
             pos = _pick_position(m) if ramp else (m.shelf_break.trace if m.shelf_break is not None else None)
             if pos is not None:
                 cands.append((abs(pos - centre), i, pos))
+            elif ramp:
+                # a ramp picked without break or toe (no distinct bend, as the
+                # truth of a ramp has none): matched by its direction alone
+                cands.append((-1.0, i, centre))
         best = min(cands) if cands else None
         ok = best is not None and lo <= best[2] <= hi
         out.append(best[1] if ok else None)
