@@ -115,7 +115,30 @@ def margins_truth(depths, *, sides, distance, x, y, to_z, family, n_steps, depth
                             clinoform_rows=[(int(k), int(k)) for k in steps], pt=pt,
                             depth_sample_m=depth_sample_m)
         if rec is not None:
-            out.append(rec)
+            out.append(_as_ramp(rec) if family == "ramp" else rec)
+    return out
+
+
+def _as_ramp(rec):
+    """A ramp's truth: no distinct break or toe (its dip changes over kilometres), slope and relief over its span.
+
+    The curvature extrema that the margin truth takes for break and toe give
+    the span over which the ramp descends; a ramp has no distinct shelf
+    break (Ahr 1973; Burchette & Wright 1992, from memory), so break and toe
+    are null with a reason, as the picker reports them.
+    """
+    out = dict(rec)
+    b, t = rec["break"], rec["toe"]
+    lo, hi = sorted((b["trace"], t["trace"]))
+    out["span"] = {"trace_from": int(lo), "trace_to": int(hi),
+                   "distance_from_m": float(min(b["distance_m"], t["distance_m"])),
+                   "distance_to_m": float(max(b["distance_m"], t["distance_m"])),
+                   "definition": "between the curvature extrema of the youngest ramp profile"}
+    out["break"] = None
+    out["toe"] = None
+    out["break_reason"] = "no distinct break: a ramp whose dip changes gradually over kilometres"
+    out["toe_reason"] = "no distinct toe: the ramp flattens gradually into the basin"
+    out["trajectory"] = None
     return out
 
 
