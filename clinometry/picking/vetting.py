@@ -72,7 +72,7 @@ MAX_SLOPE_DEG = 70.0
 #: a platform top is at least this many traces and dominant wavelengths long
 #: (a narrower top is not resolved laterally; our choice, no source)
 MIN_TOP_TRACES = 10
-MIN_TOP_WAVELENGTHS = 2.0
+MIN_TOP_WAVELENGTHS = 1.0
 #: the top is flatter than the slope when its gradient is below this fraction
 #: of the steepest slope (common practice, no source)
 TOP_FLATNESS_FRACTION = 0.5
@@ -209,23 +209,26 @@ def implausible_slope(slope_max_deg):
 
 
 def fold(onlap, character):
-    """A bend that the layers beneath it share: a fold or a tilted fault block, not a margin.
+    """A bend that the layers above and beneath it share: a fold or a tilted fault block, not a margin.
 
-    Guards against structural relief: beneath a margin's slope lies the
-    platform (its interior layers end at the slope or, as older foresets,
-    stop at its toe), and beneath its basin floor another succession; beneath
-    a fold limb the same layers run parallel to the bend and on under the
-    low side.  Both must hold: the reflections below the slope are parallel
-    to it (:data:`DRAPE_MAX_DISCORDANT`) and the layering below the surface
+    Guards against structural relief.  The fill in front of a margin laps
+    onto its slope, so the reflections in the fill beside the slope are
+    discordant with it; the layers of a fold run parallel to the bend above
+    it and beneath it, and on under its low side.  All three must hold: the
+    reflections above and below the slope are parallel to it
+    (:data:`DRAPE_MAX_DISCORDANT`) and the layering below the surface
     landward of the break matches that below it basinward of the toe
-    (:data:`FOLD_LAYERING`).
+    (:data:`FOLD_LAYERING`).  (Older clinoforms beneath a prograding slope
+    are parallel to it too, so the layers below alone do not tell.)
     """
+    above, n_above = _v(onlap, "above_discordant"), _v(onlap, "n_above", 0.0)
     below, n_below = _v(onlap, "below_discordant"), _v(onlap, "n_below", 0.0)
     layering = _v(character, "below")
-    if (math.isfinite(below) and n_below >= DRAPE_MIN_CELLS and below <= DRAPE_MAX_DISCORDANT
-            and math.isfinite(layering) and layering >= FOLD_LAYERING):
-        return (f"the layers beneath the slope run parallel to it and on beneath the basin floor (layering "
-                f"correlation {layering:.2f}): a fold or a tilted fault block, not a margin")
+    parallel = (math.isfinite(above) and n_above >= DRAPE_MIN_CELLS and above <= DRAPE_MAX_DISCORDANT
+                and math.isfinite(below) and n_below >= DRAPE_MIN_CELLS and below <= DRAPE_MAX_DISCORDANT)
+    if parallel and math.isfinite(layering) and layering >= FOLD_LAYERING:
+        return (f"the layers above and beneath the slope run parallel to it and on beneath the basin floor "
+                f"(layering correlation {layering:.2f}): a fold or a tilted fault block, not a margin")
     return None
 
 

@@ -5,7 +5,7 @@ reflections are flatter than the slope and end against it (onlap; Mitchum,
 Vail & Sangree 1977).  A surface that only bends over older relief (drape,
 compaction over a mound, a fold) has the reflections of the layers above it
 running parallel to it.  So the dips of coherent reflections in the fill,
-one to two periods off the slope along its normal, tell onlap (discordant)
+one and a half to three and a half periods off the slope along its normal, tell onlap (discordant)
 from drape (concordant).
 
 References
@@ -27,9 +27,11 @@ from .record import NEUTRAL, Evidence
 __all__ = ["onlap", "OFFSET_PERIODS", "MIN_DIP_SAMPLES"]
 
 #: the reflections off the slope are read this many dominant periods from it
-#: along its normal (beyond its own wavelet and side lobes, which reach
-#: about 0.7 period for a Ricker wavelet; our choice, no source)
-OFFSET_PERIODS = (1.0, 1.5, 2.0)
+#: along its normal: beyond its own wavelet and side lobes (about 0.7 period
+#: for a Ricker wavelet) and beyond a thin drape on it (thinner than the
+#: tuning thickness of a quarter wavelength; Widess 1973, from memory); our
+#: choice, no source
+OFFSET_PERIODS = (1.5, 2.5, 3.5)
 #: slopes dipping less than this (samples per trace) are not compared (our choice)
 MIN_DIP_SAMPLES = 0.3
 #: a cell off the slope counts as a reflection when its envelope reaches this
