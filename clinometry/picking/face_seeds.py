@@ -51,8 +51,8 @@ def face_surfaces(images, *, existing=(), max_faces: int = MAX_FACES) -> list[Su
     ----------
     images : SectionImages
     existing : sequence of Surface
-        Surfaces already tracked; ranks continue after them, and a face whose
-        seed lies within half a period of one of them is left to it.
+        Surfaces already tracked; ranks continue after them (a slope they
+        already gave is not read twice: :func:`~clinometry.picking.candidates.propose_candidates`).
     max_faces : int
         Per direction, the largest faces (vertical extent times strength).
 
@@ -67,12 +67,6 @@ def face_surfaces(images, *, existing=(), max_faces: int = MAX_FACES) -> list[Su
     good = (img.coherence >= FACE_COHERENCE) & (strength > FACE_STRENGTH)
     good[images.dead] = False
     min_cells = max(2, int(np.ceil(images.min_relief_m / (float(np.median(img.vertical_m)) * images.dx_m))))
-    half = max(1, int(round(0.5 * images.period_samples / img.factor)))
-    taken = np.zeros((n, m), bool)
-    for s in existing:
-        c = np.clip((s.z_index // img.factor).astype(np.int64), 0, m - 1)
-        for o in range(-half, half + 1):
-            taken[np.arange(n), np.clip(c + o, 0, m - 1)] = True
     rank = max((s.rank for s in existing), default=-1) + 1
     rows = np.arange(n)
     out = []
@@ -91,8 +85,6 @@ def face_surfaces(images, *, existing=(), max_faces: int = MAX_FACES) -> list[Su
             zmid = 0.5 * (r.bbox[1] + r.bbox[3])
             mid = coords[np.abs(coords[:, 1] - zmid) <= max(1.0, (r.bbox[3] - r.bbox[1]) / 6.0)]
             t, cell = mid[np.argmax(strength[mid[:, 0], mid[:, 1]])]
-            if taken[t, cell]:
-                continue
             cells = path_through(img, int(t), int(cell), direction=direction)
             q = strength[rows, cells].astype(np.float64)
             support = run_support(strength, cells)
