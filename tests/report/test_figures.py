@@ -110,3 +110,61 @@ def test_summary_and_map_figures(tmp_path):
 def test_map_figure_without_break_coordinates_writes_nothing(tmp_path):
     assert map_figure([{"family": "ramp", "break_x": None, "break_y": None}], tmp_path / "map.png") is None
     assert not (tmp_path / "map.png").exists()
+
+
+def _rejected_candidate(trace0=5):
+    t = list(range(trace0, trace0 + 20))
+    return {"direction": "+", "reason": "the platform top is 100 m long landward of the break (at least 250 m needed)",
+            "confidence": 0.62, "steepest": {"trace": trace0 + 10, "z": 200.0, "distance_m": (trace0 + 10) * 25.0},
+            "profile": {"trace": t, "z": [100.0 + 10.0 * k for k in range(20)]}}
+
+
+def test_qc_figure_without_margin_lists_and_draws_the_dropped_candidates(tmp_path):
+    from clinometry.report.figures.qc import _rejected_lines
+
+    res = _result()
+    res["margins"] = []
+    res["run"]["rejected_candidates"] = [_rejected_candidate(5), _rejected_candidate(30)]
+    path = qc_figure(res, _section(), tmp_path / "none.png")
+    img = mpimg.imread(path)[..., :3]
+    # the candidates are drawn in black dashes on a white halo: the section panel holds pure black pixels
+    # that the grey-scale noise section alone (clipped at its 98th percentile) also has, so compare with
+    # the same figure without candidates
+    res_none = dict(res, run={"notes": []})
+    plain = mpimg.imread(qc_figure(res_none, _section(), tmp_path / "plain.png"))[..., :3]
+    assert img.shape == plain.shape
+    assert np.abs(img - plain).sum() > 100  # something was drawn for the candidates
+    dist_km = np.arange(60) * 0.025
+    lines = _rejected_lines(res["run"]["rejected_candidates"], dist_km, 150)
+    text = " ".join(lines)
+    assert text.startswith("C1 at 0.38 km (trace 15), basin towards increasing traces, confidence 0.62")
+    assert "C2 at 1.00 km (trace 40)" in text
+    assert text.count("dropped because the platform top is 100 m long") == 2
+
+
+def test_qc_text_panel_wraps_every_reason_and_says_no_source_bookkeeping(tmp_path):
+    from clinometry.report.figures.qc import _margin_text
+
+    res = _result()
+    reasons = [f"reason {k}: " + "a long explanation of the rule that fired " * 3 + "(Widess 1973, from memory)"
+               for k in range(6)]
+    res["margins"][0]["reasons"] = reasons
+    lines = _margin_text(res["margins"][0])
+    joined = " ".join(s.strip() for s in lines)
+    for k in range(6):  # every reason is there in full, none cut
+        assert f"reason {k}: a long explanation" in joined
+    assert "more reason" not in joined and "from memory" not in joined
+    assert max(len(s) for s in lines) <= 60
+    # a taller text makes a taller figure rather than a cut panel
+    short = mpimg.imread(qc_figure(_result(), _section(), tmp_path / "short.png")).shape[0]
+    tall = mpimg.imread(qc_figure(res, _section(), tmp_path / "tall.png")).shape[0]
+    assert tall > short
+
+
+def test_qc_velocity_note_reads_as_words():
+    from clinometry.report._text import velocity_text
+
+    assert velocity_text({"model": "constant", "velocity_m_s": 2500.0}) == "velocity 2500 m/s (constant)"
+    flagged = velocity_text({"model": "constant", "velocity_m_s": 3000.0, "default_fallback": True})
+    assert flagged.startswith("velocity 3000 m/s") and "default velocity" in flagged
+    assert velocity_text({"model": "none"}) == "depth section: no velocity needed"
