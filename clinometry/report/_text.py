@@ -12,7 +12,7 @@ from __future__ import annotations
 
 import re
 
-__all__ = ["user_text", "velocity_text", "default_velocity_used", "DEFAULT_VELOCITY_FLAG"]
+__all__ = ["user_text", "velocity_text", "velocity_label", "default_velocity_used", "DEFAULT_VELOCITY_FLAG"]
 
 #: the short flag shown wherever a line was converted with the package default velocity
 DEFAULT_VELOCITY_FLAG = "default velocity (none given): depths approximate"
@@ -79,6 +79,32 @@ def velocity_text(vel) -> str:
     if vel.get("default_fallback"):
         extra.append(DEFAULT_VELOCITY_FLAG)
     return text + (f" ({'; '.join(extra)})" if extra else "")
+
+
+def velocity_label(vel) -> str:
+    """A short label of a result's velocity model for a table cell.
+
+    Examples
+    --------
+    >>> velocity_label({"model": "constant", "velocity_m_s": 2800.0})
+    'constant 2800 m/s'
+    >>> velocity_label({"model": "linear", "v0_m_s": 1800.0, "k_per_s": 0.6})
+    'linear 1800 m/s + 0.6/s z'
+    >>> velocity_label({"model": "none"})
+    'none (depth section)'
+    """
+    vel = vel or {}
+    model = vel.get("model", "none")
+    if model == "constant" and vel.get("velocity_m_s") is not None:
+        return f"constant {_num(vel['velocity_m_s'])} m/s"
+    if model == "linear" and vel.get("v0_m_s") is not None:
+        return f"linear {_num(vel['v0_m_s'])} m/s + {_num(vel.get('k_per_s', 0))}/s z"
+    if model in ("table", "section"):
+        src = vel.get("source")
+        return f"{model} {src.replace(chr(92), '/').rsplit('/', 1)[-1]}" if src else str(model)
+    if model == "none":
+        return "none (depth section)"
+    return str(model)
 
 
 def default_velocity_used(vel) -> bool:
