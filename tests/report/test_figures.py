@@ -103,8 +103,25 @@ def test_summary_and_map_figures(tmp_path):
                                        ("steep_margin", 30.0, 800.0, 0.0, 500.0, None)]]
     s = summary_figure(rows, tmp_path / "summary.png")
     m = map_figure(rows, tmp_path / "map.png")
-    assert mpimg.imread(s).shape[:2] == (round(4.2 * 110), round(11.0 * 110))
+    # two families: two columns of 3.2 in plus 1 in, two rows (slope, relief) 7.4 in high, at 110 dpi
+    assert mpimg.imread(s).shape[:2] == (round(7.4 * 110), round(7.4 * 110))
     assert mpimg.imread(m).shape[:2] == (round(5.2 * 110), round(12.0 * 110))
+
+
+def test_summary_gives_each_family_its_own_scale():
+    from clinometry.report.figures.overview import summary_axes
+
+    rows = [{"family": "ramp", "slope_max_deg": s, "relief_m": 40.0 + s} for s in (0.4, 0.6, 0.9)]
+    rows += [{"family": "steep_margin", "slope_max_deg": s, "relief_m": 800.0, "review_status": "accepted"}
+             for s in (33.0, 41.0)]
+    fig = summary_axes(rows)
+    slope_axes = [ax for ax in fig.axes if ax.get_ylabel() == "maximum slope (°)"]
+    assert [ax.get_title().split(" ")[0] for ax in slope_axes] == ["ramp", "steep_margin"]
+    ramp_top, steep_top = (ax.get_ylim()[1] for ax in slope_axes)
+    assert ramp_top == pytest.approx(0.9 * 1.15) and steep_top == pytest.approx(41.0 * 1.15)
+    # the review decisions are named in a legend when any margin has one
+    legend_texts = [t.get_text() for lg in fig.legends for t in lg.get_texts()]
+    assert legend_texts == ["accepted", "not reviewed"]
 
 
 def test_map_figure_without_break_coordinates_writes_nothing(tmp_path):
