@@ -43,7 +43,7 @@ from ..section import check_section, section_name
 from .analysis_options import AnalysisOptions
 
 __all__ = ["LineAnalysis", "run_analysis", "analyze", "measure_horizon", "measure", "check_choices", "CAUTIONS",
-           "rejected_candidates"]
+           "rejected_candidates", "check_velocity"]
 
 logger = logging.getLogger(__name__)
 
@@ -139,20 +139,56 @@ def check_choices(options):
 
     Raises
     ------
-    ThresholdsError, PluginError
-        A bad threshold file or table, an unknown or unfit plugin, or an
-        option a plugin does not declare.
+    ThresholdsError, PluginError, VelocityError
+        A bad threshold file or table, an unknown or unfit plugin, an
+        option a plugin does not declare, or velocity options that cannot
+        work on any line (see :func:`check_velocity`).
     """
     from ..classify import resolve_thresholds
     from ..metrics import load_metrics, run_values
 
     resolved = resolve_thresholds(options.thresholds)
+    check_velocity(options)
     classifier = load_plugin("classifier", options.classifier)
     check_options("classifier", options.classifier, classifier, {}, passed=("thresholds",))
     picker = load_plugin("picker", options.picker_name)
     check_options("picker", options.picker_name, picker, options.picker_keywords(), passed=("velocity",))
     load_metrics(options.metrics, options.metric_options, run_value_names=run_values(flat_deg=0.0))
     return resolved
+
+
+def check_velocity(options) -> None:
+    """Refuse velocity options that cannot work on any line, before any line is read.
+
+    A constant or linear velocity is built once (a negative or absurd value
+    fails here), a velocity table is read, and a velocity SEG-Y must exist
+    (it is matched trace by trace to each line later).  Whether a velocity
+    fits a line's domain is checked per line, where the message can name
+    the file.
+
+    Parameters
+    ----------
+    options : AnalysisOptions
+
+    Raises
+    ------
+    VelocityError
+        As :func:`clinometry.depth.velocity_from_options`, e.g. ``constant
+        velocity model: velocity is -2500 m/s; velocities must be positive``.
+
+    Examples
+    --------
+    >>> check_velocity(AnalysisOptions(velocity=2800.0)) is None
+    True
+    """
+    from ..depth import velocity_from_options
+    from ..depth.model_from_options import is_segy_file
+
+    vf = options.velocity_file
+    if vf is not None and os.path.isfile(vf) and is_segy_file(vf):
+        return
+    velocity_from_options(velocity=options.velocity, velocity_linear=options.velocity_linear, velocity_file=vf,
+                          domain="twt", velocity_kind=options.velocity_kind)
 
 
 def _horizon_depths(picks, section, model) -> tuple:
