@@ -41,6 +41,7 @@ from ..errors import ClinometryError
 from ..pipeline import AnalysisOptions, check_choices
 from ..pipeline.chain import check_velocity
 from ..report._text import default_velocity_used, velocity_label
+from ..report.geojson import check_crs, write_margins_geojson
 from ..report.page import margin_details
 from ..report.review import load_decisions, review_outputs
 from ..report.tables import margin_rows, write_errors_csv, write_margins_csv, write_margins_parquet
@@ -316,6 +317,7 @@ def run_batch(
     quiet=False,
     title="clinometry batch review",
     review=None,
+    crs=None,
     **option_keywords,
 ) -> BatchSummary:
     """Analyse many lines and write per-line files, tables, figures and the review page.
@@ -355,6 +357,12 @@ def run_batch(
         ``margins_reviewed.csv`` gets the accepted ones with their notes,
         the figures and the page show every decision, and a margin whose
         picks moved since its review is "changed since review".
+    crs : str, optional
+        The survey's projected coordinate reference system (``"EPSG:NNNN"``):
+        the breaks and toes are written as RFC 7946 GeoJSON in WGS 84
+        longitude/latitude (``margins.geojson``, needs pyproj); without it
+        they are written in projected x/y (``margins_projected.geojson``),
+        see :mod:`clinometry.report.geojson`.
     **option_keywords
         Fields of :class:`~clinometry.pipeline.AnalysisOptions`, on top of
         ``options`` (e.g. ``velocity=2800.0``).
@@ -395,6 +403,8 @@ def run_batch(
     out = Path(out_dir)
     out.mkdir(parents=True, exist_ok=True)
     decisions = load_decisions(out, review)
+    if crs is not None:
+        check_crs(crs)  # pyproj there and the CRS known and projected, before any line runs
     tasks, problems = plan_tasks(paths, inlines=inlines, crosslines=crosslines)
     options = TaskOptions(
         out_dir=str(out.resolve()),
@@ -442,6 +452,9 @@ def run_batch(
     if parquet is not None:
         files["margins_parquet"] = parquet
     files.update(review_files)
+    geojson = write_margins_geojson(margins, out, crs=crs)
+    if geojson is not None:
+        files["geojson"] = geojson
     summary_png = map_png = None
     if plot and margins:
         from ..report.figures import map_figure, summary_figure

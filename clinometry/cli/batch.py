@@ -10,6 +10,7 @@ the output folder
   map.png                                         break points in x-y (3D volumes)
   index.html                                      review page (open in a browser)
   margins_reviewed.csv, review.csv                with --review: accepted margins and every decision
+  margins.geojson (with --crs) or margins_projected.geojson   breaks and toes for GIS
 A bad file becomes a row of errors.csv and the batch goes on.  --resume skips
 lines whose files are complete and valid.  Exit code 0 when every line was
 analysed, 1 when some failed, 2 when nothing could run.
@@ -62,6 +63,10 @@ def add_batch_options(parser) -> None:
                         help="decisions exported from index.html (accept / reject / needs-work and notes): writes "
                         "margins_reviewed.csv with the accepted margins and marks the figures; decisions are kept "
                         "in DIR/review.csv for later runs")
+    parser.add_argument("--crs", metavar="EPSG:NNNN",
+                        help="the survey's projected coordinate reference system: breaks and toes are written as "
+                        "GeoJSON in WGS 84 longitude/latitude (RFC 7946, margins.geojson; needs pyproj); without "
+                        "it in projected x/y (margins_projected.geojson)")
 
 
 def configure(parser) -> None:
@@ -77,7 +82,7 @@ def configure(parser) -> None:
 def batch_kwargs(args) -> dict:
     """How to run the batch (not how to analyse a line) from parsed options: keywords of run_batch."""
     return dict(workers=args.workers, scheduler=args.scheduler, resume=args.resume, plot=not args.no_plot,
-                quiet=args.quiet, review=getattr(args, "review", None))
+                quiet=args.quiet, review=getattr(args, "review", None), crs=getattr(args, "crs", None))
 
 
 def report(summary) -> int:
@@ -89,6 +94,11 @@ def report(summary) -> int:
         f"{summary.n_margins} margin(s) in {summary.files.get('margins_csv')}"
     )
     print(f"review page: {summary.files.get('index_html')}")
+    if summary.files.get("geojson"):
+        geo = summary.files["geojson"]
+        kind = ("WGS 84 longitude/latitude" if os.path.basename(geo) == "margins.geojson"
+                else "projected survey x/y, not RFC 7946: give --crs EPSG:NNNN for longitude/latitude")
+        print(f"breaks and toes for GIS: {geo} ({kind})")
     for line in _default_velocity_lines(summary):
         print(line)
     if summary.review:

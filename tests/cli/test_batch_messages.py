@@ -64,3 +64,17 @@ def test_default_velocity_is_flagged_on_the_console_and_in_margins_csv(line, tmp
     out, _ = capsys.readouterr()
     assert code == 0 and "default velocity" not in out
     assert 'id="default-velocity"' not in (tmp_path / "v" / "index.html").read_text(encoding="utf-8")
+
+
+def test_batch_writes_geojson_and_refuses_a_bad_crs_up_front(line, tmp_path, capsys):
+    pytest.importorskip("pyproj")
+    code = main(["batch", str(line), "--out", str(tmp_path / "g"), "--quiet", "--crs", "EPSG:4326"])
+    _, err = capsys.readouterr()
+    assert code == 2 and "is not a projected CRS" in err
+    assert not (tmp_path / "g" / "shelf.json").exists()  # refused before the line ran
+    code = main(["batch", str(line), "--out", str(tmp_path / "p"), "--quiet", "--no-plot", "--no-uncertainty",
+                 "--workers", "1", "--velocity", "2500"])
+    out, _ = capsys.readouterr()
+    assert code == 0
+    if (tmp_path / "p" / "margins_projected.geojson").exists():  # only when the picker found a margin
+        assert "margins_projected.geojson (projected survey x/y, not RFC 7946" in out
