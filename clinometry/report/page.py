@@ -121,6 +121,8 @@ _JS = r"""
   try{reviewer.value=localStorage.getItem(WHO)||'';}catch(e){}
   reviewer.addEventListener('input',function(){try{localStorage.setItem(WHO,reviewer.value);}catch(e){}});
   var LABEL={'accept':'accepted','reject':'rejected','needs-work':'needs-work'};
+  // sorting by review state puts what needs a look first
+  var ORDER={'changed since review':0,'needs-work':1,'accepted':2,'rejected':3,'':9};
   function picks(r){return {bt:r.getAttribute('data-bt'),bd:r.getAttribute('data-bd'),
     tt:r.getAttribute('data-tt'),td:r.getAttribute('data-td')};}
   function same(a,b){ // same break and toe traces, depths within 1 m (as clinometry.report.review)
@@ -142,7 +144,7 @@ _JS = r"""
     var sel=r.querySelector('select.decision'), note=r.querySelector('input.note'), cell=r.querySelector('td.state');
     sel.value=d?d.decision:''; note.value=d?(d.note||''):'';
     sel.parentNode.setAttribute('data-v',sel.value); note.parentNode.setAttribute('data-v',note.value);
-    cell.textContent=st||'not reviewed'; cell.setAttribute('data-v',st||'~');
+    cell.textContent=st||'not reviewed'; cell.setAttribute('data-v',ORDER[st]);
     cell.title=d&&d.decision?('decided '+(d.time||'')+(d.reviewer?' by '+d.reviewer:'')):'';
     r.setAttribute('data-state',st);}
   function decide(r){var sel=r.querySelector('select.decision'), note=r.querySelector('input.note');
@@ -189,15 +191,16 @@ _JS = r"""
     var ts=document.getElementById('n-thumbs'); if(ts) ts.textContent=thumbs.filter(function(t){return t.style.display!=='none';}).length;}
   fam.addEventListener('change',filter); conf.addEventListener('input',filter); rev.addEventListener('change',filter);
   // export and import of review.csv
-  function cell(v){v=(v==null)?'':String(v);
-    if(/^[=+\-@\t\r]/.test(v)) v="'"+v; // a spreadsheet must not run it as a formula
+  var FREE={file:1,line:1,note:1,reviewer:1,stem:1}; // free text: the only cells a spreadsheet might run
+  function cell(v,k){v=(v==null)?'':String(v);
+    if(FREE[k]&&/^[=+\-@\t\r]/.test(v)) v="'"+v; // a spreadsheet must not run it as a formula
     return /[",\r\n]/.test(v)?'"'+v.replace(/"/g,'""')+'"':v;}
   function reviewCsv(){var out=[COLUMNS.join(',')];
     rows.forEach(function(r){var d=current(r); if(!d||!d.decision) return;
       var rec={file:r.getAttribute('data-file'),line:r.getAttribute('data-line'),direction:r.getAttribute('data-direction'),
         decision:d.decision,note:d.note,reviewer:d.reviewer,time:d.time,stem:r.getAttribute('data-stem'),
         break_trace:d.bt,break_depth_m:d.bd,toe_trace:d.tt,toe_depth_m:d.td};
-      out.push(COLUMNS.map(function(k){return cell(rec[k]);}).join(','));});
+      out.push(COLUMNS.map(function(k){return cell(rec[k],k);}).join(','));});
     return out.join('\n')+'\n';}
   window.clinometryReviewCsv=reviewCsv;
   document.getElementById('export').addEventListener('click',function(){
@@ -316,7 +319,7 @@ def _cell(row, key, kind):
     if kind == "note":
         return '<td class="t" data-v=""><input class="note" type="text" placeholder="note"></td>'
     if kind == "state":
-        return '<td class="state" data-v="~">not reviewed</td>'
+        return '<td class="state" data-v="9">not reviewed</td>'
     if kind is not None:
         return _num_cell(v, kind)
     text = "" if v is None else str(v)
@@ -476,7 +479,7 @@ def index_html(*, margins, lines, errors, summary_png=None, map_png=None, title=
                f"{len(margins)}</span> of {len(margins)}; click a heading to sort</span></div>")
     out.append(f'<table id="margins" data-review-columns="{_e(_json_list(REVIEW_COLUMNS))}"><thead><tr>')
     for key, head, kind in TABLE_COLUMNS:
-        num = 1 if isinstance(kind, int) or kind in ("p10-p90",) else 0
+        num = 1 if isinstance(kind, int) or kind in ("p10-p90", "state") else 0
         nosort = ' class="nosort"' if kind in ("reasons",) else ""
         out.append(f'<th data-key="{_e(key)}" data-num="{num}"{nosort}>{_e(head)}</th>')
     out.append("</tr></thead><tbody>")
