@@ -332,9 +332,9 @@ def write_csv(rows, path, columns) -> Path:
     return atomic_write(path, csv_text(rows, columns))
 
 
-def write_margins_csv(rows, path, columns=MARGIN_COLUMNS) -> Path:
+def write_margins_csv(rows, path) -> Path:
     """Write ``margins.csv`` (columns :data:`MARGIN_COLUMNS`) atomically, numbers rounded by :data:`MARGIN_DECIMALS`."""
-    return write_csv(rounded_rows(rows), path, columns)
+    return write_csv(rounded_rows(rows), path, MARGIN_COLUMNS)
 
 
 def write_errors_csv(rows, path) -> Path:
