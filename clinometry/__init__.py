@@ -16,6 +16,7 @@ from .errors import (  # noqa: F401
     HorizonFileError,
     PickingError,
     PluginError,
+    ReviewFileError,
     SegyReadError,
     ThresholdsError,
     VelocityError,
@@ -26,6 +27,7 @@ from .picking import pick  # noqa: F401
 from .classify import classify  # noqa: F401
 from .result import Result  # noqa: F401
 from .pipeline import AnalysisOptions, LineAnalysis, analyze, measure, measure_horizon, run_analysis  # noqa: F401
+from .synth.bundle import demo_files  # noqa: F401
 
 __all__ = [
     "__version__",
@@ -37,6 +39,7 @@ __all__ = [
     "HorizonFileError",
     "PickingError",
     "PluginError",
+    "ReviewFileError",
     "SegyReadError",
     "ThresholdsError",
     "VelocityError",
@@ -52,4 +55,5 @@ __all__ = [
     "analyze",
     "measure_horizon",
     "measure",
+    "demo_files",
 ]

@@ -24,6 +24,7 @@ __all__ = [
     "ThresholdsError",
     "PluginError",
     "HorizonFileError",
+    "ReviewFileError",
     "ClinometryWarning",
     "DataQualityWarning",
     "FallbackWarning",
@@ -60,6 +61,10 @@ class PluginError(ClinometryError):
 
 class HorizonFileError(ClinometryError, ValueError):
     """A user horizon file (CSV) cannot be read or matched to the section."""
+
+
+class ReviewFileError(ClinometryError, ValueError):
+    """A review file (``review.csv`` of accept / reject / needs-work decisions) cannot be read."""
 
 
 class ClinometryWarning(UserWarning):

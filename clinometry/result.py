@@ -13,7 +13,10 @@ record: the pipeline builds it once and nothing changes it afterwards.
     {"schema_version": 1,
      "source": {"path", "n_traces", "n_samples", "domain", ...},
      "velocity": {"model", ...parameters..., "default_fallback"},
-     "run": {"picker", "classifier", "seed", "fallbacks", "notes", ...},
+     "run": {"picker", "classifier", "seed", "fallbacks", "notes",
+             "rejected_candidates": [{"direction", "reason", "confidence",
+                                      "steepest": {"trace", "z", "distance_m"},
+                                      "profile": {"trace": [...], "z": [...]}}, ...], ...},
      "margins": [{"direction", "family", "subtype", "confidence", "reasons",
                   "platform_top", "break", "toe", "relief_m",
                   "slope_max_deg", "slope_mean_deg", ..., "uncertainty",
@@ -429,6 +432,38 @@ def _check_point(where: str, p, *, nullable: bool = True):
             _fail(where, f"{k!r} must be a number or null, got {p[k]!r}")
 
 
+def _check_rejected(items):
+    """``run.rejected_candidates``: the candidates the picker dropped (a later addition: optional, checked when present)."""
+    if not isinstance(items, list):
+        _fail("run.rejected_candidates", "must be a list")
+    for i, c in enumerate(items):
+        w = f"run.rejected_candidates[{i}]"
+        if not isinstance(c, dict):
+            _fail(w, "must be an object")
+        for k in ("direction", "reason", "confidence", "steepest", "profile"):
+            if k not in c:
+                _fail(w, f"has no key {k!r}")
+        if c["direction"] not in ("+", "-"):
+            _fail(w, f"'direction' must be '+' or '-', got {c['direction']!r}")
+        if not isinstance(c["reason"], str):
+            _fail(w, "'reason' must be a string")
+        if not _is_num(c["confidence"]) or not 0.0 <= c["confidence"] <= 1.0:
+            _fail(w, f"'confidence' must be a number in [0, 1], got {c['confidence']!r}")
+        st = c["steepest"]
+        if not isinstance(st, dict) or not isinstance(st.get("trace"), int) or isinstance(st.get("trace"), bool) \
+                or not _is_num(st.get("z")):
+            _fail(f"{w}.steepest", "must be an object with an integer 'trace' and a number 'z'")
+        prof = c["profile"]
+        if not isinstance(prof, dict) or not isinstance(prof.get("trace"), list) or not isinstance(prof.get("z"), list):
+            _fail(f"{w}.profile", "must be an object with lists 'trace' and 'z'")
+        if len(prof["trace"]) != len(prof["z"]):
+            _fail(f"{w}.profile", f"'trace' has {len(prof['trace'])} points but 'z' has {len(prof['z'])}")
+        if not all(isinstance(t, int) and not isinstance(t, bool) for t in prof["trace"]):
+            _fail(f"{w}.profile", "'trace' must hold integers")
+        if not all(v is None or _is_num(v) for v in prof["z"]):
+            _fail(f"{w}.profile", "'z' must hold numbers or null")
+
+
 def validate_result_dict(d) -> dict:
     """Check a dict against the results contract; return it unchanged.
 
@@ -473,6 +508,11 @@ def validate_result_dict(d) -> dict:
     vel = d.get("velocity")
     if not isinstance(vel, dict) or "model" not in vel:
         _fail("velocity", "missing, or has no key 'model'")
+    run = d.get("run")
+    if run is not None and not isinstance(run, dict):
+        _fail("run", "must be an object")
+    if run and "rejected_candidates" in run:
+        _check_rejected(run["rejected_candidates"])
     margins = d.get("margins")
     if not isinstance(margins, list):
         _fail("margins", "missing or not a list")

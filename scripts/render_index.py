@@ -35,8 +35,10 @@ def find_browser():
     return None
 
 
-def render(index_html, png, *, width=1400, height=1800, timeout_s=120.0):
+def render(index_html, png, *, width=1400, height=1800, timeout_s=120.0, fragment=""):
     """Screenshot ``index_html`` into ``png`` with headless Chromium; returns the PNG path.
+
+    ``fragment`` presets the page's view, e.g. ``"sort=review_status"``.
 
     Raises
     ------
@@ -57,7 +59,7 @@ def render(index_html, png, *, width=1400, height=1800, timeout_s=120.0):
             browser, "--headless", "--no-sandbox", "--disable-gpu", "--disable-quic", "--no-first-run",
             "--disable-background-networking", "--disable-component-update", "--disable-sync",
             f"--user-data-dir={profile}", f"--screenshot={png}", f"--window-size={width},{height}",
-            "--hide-scrollbars", page.as_uri(),
+            "--hide-scrollbars", page.as_uri() + (f"#{fragment}" if fragment else ""),
         ]
         proc = subprocess.run(cmd, capture_output=True, text=True, timeout=timeout_s)
     if proc.returncode != 0 or not png.is_file():

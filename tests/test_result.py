@@ -270,3 +270,39 @@ def test_contract_json_matches_truth_direction_and_rereads(analyzed_json):
     # break within a few hundred metres of the truth (pick tolerance: common practice, no source)
     assert abs(m["break"]["distance_m"] - t["break"]["distance_m"]) <= 300.0
     assert Result.from_dict(d).to_dict() == d
+
+
+def _with_rejected(**change):
+    from clinometry.picking.picks import RejectedCandidate
+    from clinometry.pipeline.chain import rejected_candidates
+    from clinometry.section import make_section
+
+    sec = make_section(np.zeros((40, 10)), z=np.arange(10) * 4.0, trace_spacing_m=12.5)
+    c = RejectedCandidate("-", np.arange(5, 15), np.linspace(8.0, 30.0, 10), PickPoint(9, 17.777, 0.8),
+                          "relief 37 m below the minimum 41 m", 0.5734)
+    d = _hand_result().to_dict()
+    d["run"]["rejected_candidates"] = rejected_candidates(Picks(rejected=(c,)), sec)
+    d["run"]["rejected_candidates"][0].update(change)
+    return d
+
+
+def test_rejected_candidates_are_plain_rounded_records_in_the_run_block():
+    d = _with_rejected()
+    c = d["run"]["rejected_candidates"][0]
+    assert c["direction"] == "-" and c["reason"] == "relief 37 m below the minimum 41 m"
+    assert c["confidence"] == 0.573
+    assert c["steepest"] == {"trace": 9, "z": 17.78, "distance_m": 112.5}  # trace 9 x 12.5 m
+    assert c["profile"]["trace"] == list(range(5, 15)) and len(c["profile"]["z"]) == 10
+    assert validate_result_dict(json.loads(json.dumps(d))) is not None
+    assert Result.from_dict(d).to_dict() == d  # a re-read result keeps them
+
+
+@pytest.mark.parametrize("change, match", [
+    ({"direction": "up"}, r"run.rejected_candidates\[0\]: 'direction'"),
+    ({"confidence": 1.5}, r"'confidence' must be a number in \[0, 1\]"),
+    ({"profile": {"trace": [1, 2], "z": [1.0]}}, r"'trace' has 2 points but 'z' has 1"),
+    ({"steepest": {"trace": 1.5, "z": 3.0}}, r"steepest: must be an object with an integer 'trace'"),
+])
+def test_validate_names_a_bad_rejected_candidate(change, match):
+    with pytest.raises(ClinometryError, match=match):
+        validate_result_dict(_with_rejected(**change))

@@ -39,6 +39,11 @@ from pathlib import Path
 
 from ..errors import ClinometryError
 from ..pipeline import AnalysisOptions, check_choices
+from ..pipeline.chain import check_velocity
+from ..report._text import default_velocity_used, velocity_label
+from ..report.geojson import check_crs, write_margins_geojson
+from ..report.page import margin_details
+from ..report.review import load_decisions, review_outputs
 from ..report.tables import margin_rows, write_errors_csv, write_margins_csv, write_margins_parquet
 from .tasks import TaskOptions, is_complete, output_names, plan_tasks, run_task
 
@@ -66,6 +71,14 @@ class BatchSummary:
         Name -> path of the run-level outputs written.
     records : tuple of dict
         One record per line (see :func:`clinometry.batch.tasks.run_task`).
+    errors : tuple of dict
+        Rows of the errors table (``file, line, error_type, message``).
+    default_velocity : tuple of str
+        Stems of the lines converted with the package default velocity
+        (no velocity was given for them).
+    review : dict
+        Margins per review state (:func:`clinometry.report.review.review_counts`);
+        empty when no decision was given or kept.
     """
 
     out_dir: str
@@ -77,6 +90,9 @@ class BatchSummary:
     n_margins: int
     files: dict = field(default_factory=dict)
     records: tuple = ()
+    errors: tuple = ()
+    default_velocity: tuple = ()
+    review: dict = field(default_factory=dict)
 
     @property
     def exit_code(self) -> int:
@@ -246,10 +262,12 @@ def collect_tables(tasks, out_dir, *, plot=True):
     Returns
     -------
     margins : list of dict
-        Rows of the margins table, in task order, each with ``json``
-        (relative link).
+        Rows of the margins table, in task order, each with ``json`` and
+        ``png`` (relative links), ``reasons`` and ``missing`` (for the
+        review page, :func:`clinometry.report.page.margin_details`).
     lines : list of dict
-        Per task: ``stem, file, line, status, json, png, csv, n_margins``
+        Per task: ``stem, file, line, status, json, png, csv, n_margins``,
+        ``default_velocity`` and ``velocity`` (label of the model)
         (``status`` "ok" when its files are complete and valid, see
         :func:`clinometry.batch.tasks.is_complete`; only those lines give
         margin rows).
@@ -267,13 +285,15 @@ def collect_tables(tasks, out_dir, *, plot=True):
             continue
         d = json.loads((out / names["json"]).read_text(encoding="utf-8"))
         rows = margin_rows(d, file=t.path, line=t.label, stem=t.stem)
-        for r in rows:
-            r["json"] = names["json"]
+        png = names["png"] if names["png"] and (out / names["png"]).is_file() else None
+        for r, details in zip(rows, margin_details(d)):
+            r.update(json=names["json"], png=png, **details)
         margins.extend(rows)
         for c in (d.get("run") or {}).get("cautions") or []:
             if c not in cautions:
                 cautions.append(c)
-        entry.update(status="ok", json=names["json"], n_margins=len(rows))
+        entry.update(status="ok", json=names["json"], n_margins=len(rows),
+                     default_velocity=default_velocity_used(d.get("velocity")), velocity=velocity_label(d.get("velocity")))
         if names["png"] and (out / names["png"]).is_file():
             entry["png"] = names["png"]
         if (out / names["csv"]).is_file():
@@ -296,6 +316,8 @@ def run_batch(
     plot=True,
     quiet=False,
     title="clinometry batch review",
+    review=None,
+    crs=None,
     **option_keywords,
 ) -> BatchSummary:
     """Analyse many lines and write per-line files, tables, figures and the review page.
@@ -328,6 +350,19 @@ def run_batch(
         No progress bar.
     title : str
         Title of the review page.
+    review : str or os.PathLike, optional
+        A ``review.csv`` exported from the review page.  Its decisions, and
+        those kept in ``out_dir/review.csv`` by earlier runs, are applied
+        to the margins (see :mod:`clinometry.report.review`):
+        ``margins_reviewed.csv`` gets the accepted ones with their notes,
+        the figures and the page show every decision, and a margin whose
+        picks moved since its review is "changed since review".
+    crs : str, optional
+        The survey's projected coordinate reference system (``"EPSG:NNNN"``):
+        the breaks and toes are written as RFC 7946 GeoJSON in WGS 84
+        longitude/latitude (``margins.geojson``, needs pyproj); without it
+        they are written in projected x/y (``margins_projected.geojson``),
+        see :mod:`clinometry.report.geojson`.
     **option_keywords
         Fields of :class:`~clinometry.pipeline.AnalysisOptions`, on top of
         ``options`` (e.g. ``velocity=2800.0``).
@@ -342,8 +377,9 @@ def run_batch(
         When the output folder cannot be created.
     ClinometryError
         Bad line selection, an unreachable Dask scheduler, a horizon file
-        (it belongs to one line: use ``analyze``), or thresholds or plugin
-        choices that are refused (checked once, before any line runs).
+        (it belongs to one line: use ``analyze``), thresholds, plugin
+        choices or velocity options that are refused, or a review file that
+        cannot be read (all checked once, before any line runs).
 
     Notes
     -----
@@ -361,8 +397,14 @@ def run_batch(
         velocity_file=None if analysis.velocity_file is None else str(Path(analysis.velocity_file).resolve()),
     )
     analysis = replace(analysis, thresholds=check_choices(analysis))
+    for own in (file_velocity or {}).values():  # a file's own velocity is refused before any line runs too
+        check_velocity(replace(analysis, **{"velocity": None, "velocity_linear": None, "velocity_file": None,
+                                            **dict(own)}))
     out = Path(out_dir)
     out.mkdir(parents=True, exist_ok=True)
+    decisions = load_decisions(out, review)
+    if crs is not None:
+        check_crs(crs)  # pyproj there and the CRS known and projected, before any line runs
     tasks, problems = plan_tasks(paths, inlines=inlines, crosslines=crosslines)
     options = TaskOptions(
         out_dir=str(out.resolve()),
@@ -397,6 +439,7 @@ def run_batch(
     records.sort(key=lambda r: order.get(r["stem"], -1))
 
     margins, lines, cautions = collect_tables(tasks, out, plot=plot)
+    margins, review_counts, review_files = review_outputs(margins, decisions, out)
     errors = list(problems) + [
         {"file": r["file"], "line": r["line"], "error_type": r["error_type"], "message": r["message"]}
         for r in records if r["status"] != "ok"
@@ -408,6 +451,10 @@ def run_batch(
     parquet = write_margins_parquet(margins, out / "margins.parquet")
     if parquet is not None:
         files["margins_parquet"] = parquet
+    files.update(review_files)
+    geojson = write_margins_geojson(margins, out, crs=crs)
+    if geojson is not None:
+        files["geojson"] = geojson
     summary_png = map_png = None
     if plot and margins:
         from ..report.figures import map_figure, summary_figure
@@ -429,7 +476,8 @@ def run_batch(
     return BatchSummary(
         out_dir=str(out), n_tasks=len(tasks), n_ok=sum(r["status"] == "ok" for r in records),
         n_failed=n_failed, n_skipped=skipped, n_problems=len(problems), n_margins=len(margins),
-        files={k: str(v) for k, v in files.items()}, records=tuple(records),
+        files={k: str(v) for k, v in files.items()}, records=tuple(records), errors=tuple(errors),
+        default_velocity=tuple(ln["stem"] for ln in lines if ln.get("default_velocity")), review=review_counts,
     )
 
 

@@ -7,8 +7,12 @@ Each subcommand lives in its own module of this package, which defines
 
 Exit codes: 0 when everything worked; 1 when some work failed (the message
 says how many lines); 2 for bad input, bad usage, or when nothing could run.
-Errors go to stderr as one line, ``clinometry: error: <message>``; a traceback
-only with ``--debug``.
+Errors go to stderr as one line, ``clinometry: error: <message>``, worded for
+the command line (:func:`cli_message`: its own option names, "file not
+found: PATH"); ``--debug`` adds the traceback above that line and never
+changes the exit code.  Output cut short by a closed pipe (``clinometry
+inspect F | head -1``) ends quietly with the status a shell reports for a
+standard tool killed by SIGPIPE (128 + 13 = 141).
 """
 
 from __future__ import annotations
@@ -16,12 +20,15 @@ from __future__ import annotations
 import argparse
 import importlib
 import logging
+import os
+import re
 import sys
+import traceback
 
 from .._version import __version__
 from ..errors import ClinometryError
 
-__all__ = ["main", "SUBCOMMANDS"]
+__all__ = ["main", "SUBCOMMANDS", "cli_message"]
 
 #: subcommand name -> module (relative to this package)
 SUBCOMMANDS = {
@@ -80,30 +87,117 @@ def _setup_logging(verbosity: int) -> None:
             h.stream = sys.stderr
 
 
+#: keywords of the Python API that messages may name -> the command line's own option
+CLI_OPTIONS = {
+    "inline": "--inline",
+    "crossline": "--crossline",
+    "horizons": "--horizons",
+    "velocity": "--velocity",
+    "velocity_linear": "--velocity-linear",
+    "velocity_file": "--velocity-file",
+    "velocity_kind": "--velocity-kind",
+    "domain": "--domain",
+    "thresholds": "--thresholds",
+    "picker": "--picker",
+    "classifier": "--classifier",
+    "seed": "--seed",
+}
+#: Python keywords the command line has no option for (they are options of clinometry.read_section)
+_PYTHON_ONLY = ("header_bytes", "trace_spacing_m", "sample_interval", "sample_interval_ms", "coordinates",
+                "max_offset_m")
+_KEYWORD = re.compile(r"(?<![\w-])([a-z][a-z_]*)=(?=[\s,;/)`]|$)")
+_KEYWORD_GIVEN = re.compile(r"(?<![\w-])([a-z][a-z_]*)=\s*\((--[^)]*)\)")
+_KEYWORD_VALUE = re.compile(r"(?<![\w-])([a-z][a-z_]*)=([0-9][\w.-]*)")
+#: exit status of a process ended by SIGPIPE, as a shell reports it (128 + signal 13; POSIX)
+BROKEN_PIPE_STATUS = 128 + 13
+
+
+def cli_message(err) -> str:
+    """An exception's message as the command line says it (one line).
+
+    Python-API keywords become the command line's option names
+    (``inline=`` -> ``--inline``); keywords with no option are named once
+    with where to find them; a missing file is "file not found: PATH".
+
+    Examples
+    --------
+    >>> cli_message(FileNotFoundError(2, "No such file or directory", "line_07.sgy"))
+    'file not found: line_07.sgy'
+    >>> cli_message(ValueError("a.sgy: 2D file; read it without inline=, or point header_bytes= at the fields"))
+    'a.sgy: 2D file; read it without --inline, or point header_bytes at the fields (header_bytes: no \
+command-line option; pass it to clinometry.read_section in Python)'
+    """
+    if isinstance(err, OSError) and not isinstance(err, ClinometryError) and getattr(err, "filename", None):
+        name = os.fspath(err.filename)
+        if isinstance(err, FileNotFoundError):
+            return f"file not found: {name}"
+        if isinstance(err, IsADirectoryError):
+            return f"is a folder, not a file: {name}"
+        if isinstance(err, PermissionError):
+            return f"permission denied: {name}"
+        if isinstance(err, NotADirectoryError):
+            return f"not a folder: {name}"
+        if err.strerror:
+            return f"{err.strerror[:1].lower()}{err.strerror[1:]}: {name}"
+    msg = " ".join((str(err) or type(err).__name__).split())
+    python_only = []
+
+    def word(m):
+        key = m.group(1)
+        if key in CLI_OPTIONS:
+            return CLI_OPTIONS[key]
+        if key in _PYTHON_ONLY:
+            if key not in python_only:
+                python_only.append(key)
+            return key
+        return m.group(0)
+
+    msg = _KEYWORD_GIVEN.sub(r"\2", msg)  # "horizons= (--horizons FILE.csv)" says it twice
+    msg = _KEYWORD_VALUE.sub(lambda m: f"{CLI_OPTIONS[m.group(1)]} {m.group(2)}" if m.group(1) in CLI_OPTIONS
+                             else m.group(0), msg)
+    msg = _KEYWORD.sub(word, msg)
+    msg = msg.replace("use iter_sections", "use clinometry batch (every line of a volume)")
+    if python_only:
+        names = ", ".join(python_only)
+        them = "it" if len(python_only) == 1 else "them"
+        msg += f" ({names}: no command-line option; pass {them} to clinometry.read_section in Python)"
+    return msg
+
+
+def _quiet_broken_pipe() -> int:
+    """Stop writing to a closed pipe without a message, as standard tools do."""
+    try:  # later writes (and the flush at exit) go nowhere instead of raising again (Python docs, signal module)
+        devnull = os.open(os.devnull, os.O_WRONLY)
+        os.dup2(devnull, sys.stdout.fileno())
+    except (OSError, ValueError, AttributeError):
+        pass  # stdout is not a real file (a test's capture)
+    return BROKEN_PIPE_STATUS
+
+
+def _error(err, debug, text) -> int:
+    if debug:  # the traceback, then the same one-line error and the same exit code as without --debug
+        traceback.print_exception(type(err), err, err.__traceback__, file=sys.stderr)
+    print(f"clinometry: error: {text}", file=sys.stderr)
+    return 2
+
+
 def main(argv=None) -> int:
-    """Run the command line; return the exit code (0 ok, 1 partial failure, 2 error)."""
+    """Run the command line; return the exit code (0 ok, 1 partial failure, 2 error; 141 closed pipe)."""
     parser = build_parser()
     args = parser.parse_args(argv)
     _setup_logging(getattr(args, "verbose", 0))
     debug = getattr(args, "debug", False)
     try:
-        return int(args._run(args) or 0)
+        code = int(args._run(args) or 0)
+        sys.stdout.flush()  # a closed pipe shows here, inside the handlers below
+        return code
+    except BrokenPipeError:
+        return _quiet_broken_pipe()
     except (ClinometryError, OSError) as err:
-        if debug:
-            raise
-        msg = str(err) or type(err).__name__
-        print(f"clinometry: error: {' '.join(msg.split())}", file=sys.stderr)
-        return 2
+        return _error(err, debug, cli_message(err))
     except KeyboardInterrupt:
         print("clinometry: error: interrupted", file=sys.stderr)
         return 2
     except Exception as err:  # a bug: still one line on stderr, traceback with --debug
-        if debug:
-            raise
         msg = " ".join(str(err).split())
-        print(
-            f"clinometry: error: internal error ({type(err).__name__}: {msg}); "
-            "rerun with --debug and report it",
-            file=sys.stderr,
-        )
-        return 2
+        return _error(err, debug, f"internal error ({type(err).__name__}: {msg}); rerun with --debug and report it")

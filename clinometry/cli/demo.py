@@ -32,8 +32,8 @@ __all__ = ["DESCRIPTION", "EXAMPLE", "configure", "run", "bundled_inputs", "gene
 
 logger = logging.getLogger(__name__)
 
-#: name of the folder with the bundled synthetic inputs
-BUNDLE_DIR = "synthetic_volumes"
+#: how the bundled inputs are named and made: see clinometry.synth.bundle
+from ..synth.bundle import BUNDLE_CUBE_NAME, BUNDLE_CUBE_SEED, BUNDLE_DIR, BUNDLE_IBM_LINES  # noqa: E402,F401
 
 
 def configure(parser) -> None:
@@ -50,61 +50,17 @@ def _has_segy(folder: Path) -> bool:
 
 
 def bundled_inputs():
-    """The bundled ``synthetic_volumes/`` folder, or None when it is not there.
+    """The bundled ``synthetic_volumes/`` folder, or None (see :func:`clinometry.synth.bundle.bundled_folder`)."""
+    from ..synth.bundle import bundled_folder
 
-    Looked for next to the package (installed as data) and at the root of a
-    source checkout (the package's parent folder).
-    """
-    pkg = Path(__file__).resolve().parents[1]  # the clinometry package folder
-    for cand in (pkg / BUNDLE_DIR, pkg.parent / BUNDLE_DIR):
-        if _has_segy(cand):
-            return cand
-    return None
-
-
-#: how the bundled inputs were made (scripts/make_synthetic_volumes.py): the
-#: scenario at position i of ``SCENARIOS`` with seed i, these lines in IBM
-#: float, and the cube with its own seed and name
-BUNDLE_IBM_LINES = ("steep_margin",)
-BUNDLE_CUBE_SEED = 99
-BUNDLE_CUBE_NAME = "curved_margin_cube"
+    return bundled_folder()
 
 
 def generate_inputs(folder, *, scenarios=None, cube=True):
-    """Write forward-model scenarios (and the 3D cube) into ``folder``.
+    """Write the bundled scenarios into ``folder`` (see :func:`clinometry.synth.bundle.generate_bundle`)."""
+    from ..synth.bundle import generate_bundle
 
-    The files are made as the bundled ``synthetic_volumes/`` are (same
-    seeds, sample formats and names), so the demo shows the same lines with
-    or without the bundle.
-
-    Parameters
-    ----------
-    folder : str or os.PathLike
-        Created if missing.
-    scenarios : sequence of str, optional
-        Scenario names; default every one in ``clinometry.synth.SCENARIOS``.
-    cube : bool
-        Also write the small 3D cube.
-
-    Returns
-    -------
-    list of pathlib.Path
-        The SEG-Y files written (``<stem>.truth.json`` beside each).
-    """
-    from .. import synth
-
-    folder = Path(folder)
-    folder.mkdir(parents=True, exist_ok=True)
-    order = list(synth.SCENARIOS)
-    written = []
-    for name in (order if scenarios is None else scenarios):
-        section, truth = synth.make_line(name, seed=order.index(name))
-        fmt = "ibm" if name in BUNDLE_IBM_LINES else "ieee"
-        written.append(synth.write_line(section, truth, folder / f"{name}.sgy", sample_format=fmt)[0])
-    if cube:
-        volume, truth = synth.make_cube(seed=BUNDLE_CUBE_SEED)
-        written.append(synth.write_cube(volume, truth, folder / f"{BUNDLE_CUBE_NAME}.sgy")[0])
-    return written
+    return generate_bundle(folder, scenarios=scenarios, cube=cube)
 
 
 def truth_velocities(folder) -> dict:

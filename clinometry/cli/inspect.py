@@ -6,10 +6,15 @@ trace spacing, delay and the textual header.  Only headers are read.
 from __future__ import annotations
 
 import json
+import re
 
 from ..io import inspect_file
 
-__all__ = ["DESCRIPTION", "EXAMPLE", "configure", "run", "format_report"]
+__all__ = ["DESCRIPTION", "EXAMPLE", "configure", "run", "format_report", "text_header_lines"]
+
+#: a card that holds nothing but its own "C nn" label (SEG-Y rev 1 textual header: 40 cards of 80 characters,
+#: each starting with "C" and its number; common practice, no source)
+_EMPTY_CARD = re.compile(r"^\s*(?:C\s*(\d{1,2}))?\s*$")
 
 DESCRIPTION = "show the headers, geometry and coordinates of a SEG-Y file"
 EXAMPLE = "clinometry inspect line_07.sgy --json"
@@ -66,8 +71,40 @@ def format_report(info: dict, *, text: bool = True) -> str:
         lines.append(f"problem:            {p}")
     if text:
         lines.append(f"textual header ({info['text_encoding']}):")
-        lines.extend("  " + t for t in (info["text_header"].splitlines() or ["(empty)"]))
+        lines.extend("  " + t for t in text_header_lines(info["text_header"]))
     return "\n".join(lines)
+
+
+def text_header_lines(text: str) -> list:
+    """The textual header as report lines, with each run of two or more empty cards collapsed into one line.
+
+    Examples
+    --------
+    >>> text_header_lines("C 1 LINE A\\nC 2\\nC 3\\nC 4 END\\nC 5\\n")
+    ['C 1 LINE A', '(cards 2-3 empty)', 'C 4 END', 'C 5']
+    >>> text_header_lines("")
+    ['(empty)']
+    """
+    lines = text.splitlines()
+    out, run = [], []
+
+    def flush():
+        if len(run) >= 2:
+            first, last = run[0], run[-1]
+            out.append(f"(cards {first[0]}-{last[0]} empty)")
+        else:
+            out.extend(t for _, t in run)
+        run.clear()
+
+    for i, t in enumerate(lines, start=1):
+        m = _EMPTY_CARD.match(t)
+        if m:
+            run.append((int(m.group(1)) if m.group(1) else i, t.rstrip()))
+        else:
+            flush()
+            out.append(t.rstrip())
+    flush()
+    return out or ["(empty)"]
 
 
 def run(args) -> int:

@@ -42,7 +42,8 @@ from ..result import Result
 from ..section import check_section, section_name
 from .analysis_options import AnalysisOptions
 
-__all__ = ["LineAnalysis", "run_analysis", "analyze", "measure_horizon", "measure", "check_choices", "CAUTIONS"]
+__all__ = ["LineAnalysis", "run_analysis", "analyze", "measure_horizon", "measure", "check_choices", "CAUTIONS",
+           "rejected_candidates", "check_velocity"]
 
 logger = logging.getLogger(__name__)
 
@@ -138,20 +139,56 @@ def check_choices(options):
 
     Raises
     ------
-    ThresholdsError, PluginError
-        A bad threshold file or table, an unknown or unfit plugin, or an
-        option a plugin does not declare.
+    ThresholdsError, PluginError, VelocityError
+        A bad threshold file or table, an unknown or unfit plugin, an
+        option a plugin does not declare, or velocity options that cannot
+        work on any line (see :func:`check_velocity`).
     """
     from ..classify import resolve_thresholds
     from ..metrics import load_metrics, run_values
 
     resolved = resolve_thresholds(options.thresholds)
+    check_velocity(options)
     classifier = load_plugin("classifier", options.classifier)
     check_options("classifier", options.classifier, classifier, {}, passed=("thresholds",))
     picker = load_plugin("picker", options.picker_name)
     check_options("picker", options.picker_name, picker, options.picker_keywords(), passed=("velocity",))
     load_metrics(options.metrics, options.metric_options, run_value_names=run_values(flat_deg=0.0))
     return resolved
+
+
+def check_velocity(options) -> None:
+    """Refuse velocity options that cannot work on any line, before any line is read.
+
+    A constant or linear velocity is built once (a negative or absurd value
+    fails here), a velocity table is read, and a velocity SEG-Y must exist
+    (it is matched trace by trace to each line later).  Whether a velocity
+    fits a line's domain is checked per line, where the message can name
+    the file.
+
+    Parameters
+    ----------
+    options : AnalysisOptions
+
+    Raises
+    ------
+    VelocityError
+        As :func:`clinometry.depth.velocity_from_options`, e.g. ``constant
+        velocity model: velocity is -2500 m/s; velocities must be positive``.
+
+    Examples
+    --------
+    >>> check_velocity(AnalysisOptions(velocity=2800.0)) is None
+    True
+    """
+    from ..depth import velocity_from_options
+    from ..depth.model_from_options import is_segy_file
+
+    vf = options.velocity_file
+    if vf is not None and os.path.isfile(vf) and is_segy_file(vf):
+        return
+    velocity_from_options(velocity=options.velocity, velocity_linear=options.velocity_linear, velocity_file=vf,
+                          domain="twt", velocity_kind=options.velocity_kind)
 
 
 def _horizon_depths(picks, section, model) -> tuple:
@@ -192,6 +229,7 @@ def _measure_and_classify(section, path, picks, model, vdict, fallback, *, optio
         "notes": notes,
         "n_horizons": len(picks.horizons),
         "pick_notes": list(picks.notes),
+        "rejected_candidates": rejected_candidates(picks, section),
         "cautions": list(CAUTIONS),
         "horizon_source": "automatic" if options.horizons is None else horizon_source(options.horizons),
     }
@@ -204,6 +242,60 @@ def _measure_and_classify(section, path, picks, model, vdict, fallback, *, optio
         run=run,
         horizon_depths_m=_horizon_depths(picks, section, model),
     )
+
+
+#: most profile points kept per rejected candidate in the results file (evenly thinned beyond)
+MAX_REJECTED_POINTS = 400
+
+
+def rejected_candidates(picks, section) -> list:
+    """The candidates the picker dropped, as plain records for ``run["rejected_candidates"]``.
+
+    Parameters
+    ----------
+    picks : Picks
+        Its ``rejected`` tuple (:class:`~clinometry.picking.picks.RejectedCandidate`).
+    section : xarray.DataArray, dims ("trace", "z")
+        For the along-line distance of each point.
+
+    Returns
+    -------
+    list of dict
+        ``{"direction", "reason", "confidence", "steepest": {"trace", "z",
+        "distance_m"}, "profile": {"trace": [...], "z": [...]}}``, z in the
+        section's units rounded to 0.01, distance to 0.1 m, confidence to
+        0.001; at most :data:`MAX_REJECTED_POINTS` profile points (evenly
+        thinned, ends kept).  Empty when the picker reported none.
+
+    Examples
+    --------
+    >>> from clinometry.picking.picks import PickPoint, Picks, RejectedCandidate
+    >>> from clinometry.section import make_section
+    >>> sec = make_section(np.zeros((5, 4)), z=[0, 4, 8, 12], trace_spacing_m=25.0)
+    >>> c = RejectedCandidate("+", np.array([1, 2, 3]), np.array([4.0, 6.004, 8.0]), PickPoint(2, 6.004, 0.9),
+    ...                       "staircase", 0.41)
+    >>> rejected_candidates(Picks(rejected=(c,)), sec)[0]["steepest"]
+    {'trace': 2, 'z': 6.0, 'distance_m': 50.0}
+    """
+    dist = np.asarray(section["distance"].values, dtype=float)
+    out = []
+    for c in getattr(picks, "rejected", ()) or ():
+        t = np.asarray(c.trace, dtype=np.int64)
+        z = np.asarray(c.z, dtype=float)
+        if t.size > MAX_REJECTED_POINTS:
+            keep = np.unique(np.linspace(0, t.size - 1, MAX_REJECTED_POINTS).round().astype(int))
+            t, z = t[keep], z[keep]
+        st = c.steepest
+        st_trace = int(st.trace)
+        out.append({
+            "direction": c.direction,
+            "reason": str(c.reason),
+            "confidence": round(float(c.confidence), 3),
+            "steepest": {"trace": st_trace, "z": round(float(st.z), 2),
+                         "distance_m": round(float(dist[st_trace]), 1) if 0 <= st_trace < dist.size else None},
+            "profile": {"trace": t.tolist(), "z": [round(float(v), 2) for v in z]},
+        })
+    return out
 
 
 #: the usual cautions recorded with every result (common practice, no source)

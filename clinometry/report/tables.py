@@ -19,13 +19,16 @@ from pathlib import Path
 
 import numpy as np
 
+from ._text import default_velocity_used, velocity_label
 from .atomic import atomic_write
 
 __all__ = [
     "MARGIN_COLUMNS",
     "ERROR_COLUMNS",
     "HORIZON_COLUMNS",
+    "MARGIN_DECIMALS",
     "margin_rows",
+    "rounded_rows",
     "margin_value",
     "margin_percentile",
     "horizon_rows",
@@ -69,7 +72,21 @@ MARGIN_COLUMNS = (
     "trajectory_class",
     "trajectory_angle_deg",
     "n_clinoforms",
+    "break_depth_m_p10",
+    "break_depth_m_p90",
+    "velocity_model",
+    "default_velocity",
 )
+
+#: decimals of each number column of margins.csv: 0.1 deg, 1 m, 0.01 confidence (a precision the
+#: picks support; the results JSON keeps every digit).  Columns not listed are written as they are.
+MARGIN_DECIMALS = {
+    "confidence": 2,
+    **{f"{p}_{k}": 0 for p in ("break", "toe") for k in ("distance_m", "x", "y", "depth_m")},
+    **{k: 1 for k in ("slope_max_deg", "slope_max_deg_p10", "slope_max_deg_p90", "slope_mean_deg",
+                      "slope_mean_deg_p10", "slope_mean_deg_p90", "trajectory_angle_deg")},
+    **{k: 0 for k in ("relief_m", "relief_m_p10", "relief_m_p90", "break_depth_m_p10", "break_depth_m_p90")},
+}
 
 #: columns of errors.csv, in order
 ERROR_COLUMNS = ("file", "line", "error_type", "message")
@@ -137,6 +154,7 @@ def margin_rows(result, *, file="", line="", stem="") -> list:
     ('ramp', 120.0, None, 1.5)
     """
     rows = []
+    velocity = result.get("velocity") or {}
     for m in result.get("margins", []) or []:
         row = dict.fromkeys(MARGIN_COLUMNS)
         row.update(file=file, line=line, stem=stem)
@@ -156,8 +174,38 @@ def margin_rows(result, *, file="", line="", stem="") -> list:
         row["trajectory_class"] = traj.get("class")
         row["trajectory_angle_deg"] = _number(traj.get("angle_deg"))
         row["n_clinoforms"] = len(m.get("clinoforms") or [])
+        row["break_depth_m_p10"] = margin_percentile(m, "break_depth_m", "p10")
+        row["break_depth_m_p90"] = margin_percentile(m, "break_depth_m", "p90")
+        row["velocity_model"] = velocity_label(velocity)
+        row["default_velocity"] = "yes" if default_velocity_used(velocity) else "no"
         rows.append(row)
     return rows
+
+
+def rounded_rows(rows, decimals=None) -> list:
+    """Copies of table rows with each number column rounded to its decimals (0 decimals -> int).
+
+    Parameters
+    ----------
+    rows : list of dict
+    decimals : dict, optional
+        Column -> decimals; default :data:`MARGIN_DECIMALS`.
+
+    Examples
+    --------
+    >>> rounded_rows([{"confidence": 0.8366, "relief_m": 339.64, "slope_max_deg": 21.94, "file": "a"}])
+    [{'confidence': 0.84, 'relief_m': 340, 'slope_max_deg': 21.9, 'file': 'a'}]
+    """
+    decimals = MARGIN_DECIMALS if decimals is None else decimals
+    out = []
+    for r in rows:
+        r = dict(r)
+        for c, n in decimals.items():
+            v = r.get(c)
+            if isinstance(v, (int, float)) and not isinstance(v, bool) and math.isfinite(v):
+                r[c] = int(round(v)) + 0 if n == 0 else round(float(v), n) + 0.0
+        out.append(r)
+    return out
 
 
 def _rounded(values) -> list:
@@ -285,8 +333,8 @@ def write_csv(rows, path, columns) -> Path:
 
 
 def write_margins_csv(rows, path) -> Path:
-    """Write ``margins.csv`` (columns :data:`MARGIN_COLUMNS`) atomically."""
-    return write_csv(rows, path, MARGIN_COLUMNS)
+    """Write ``margins.csv`` (columns :data:`MARGIN_COLUMNS`) atomically, numbers rounded by :data:`MARGIN_DECIMALS`."""
+    return write_csv(rounded_rows(rows), path, MARGIN_COLUMNS)
 
 
 def write_errors_csv(rows, path) -> Path:
@@ -309,7 +357,8 @@ def write_margins_parquet(rows, path):
     except ImportError:
         logger.info("pyarrow is not installed; margins.parquet skipped (pip install clinometry[parquet])")
         return None
-    text_cols = {"file", "line", "stem", "direction", "family", "subtype", "trajectory_class"}
+    text_cols = {"file", "line", "stem", "direction", "family", "subtype", "trajectory_class", "velocity_model",
+                 "default_velocity"}
     int_cols = {"break_trace", "toe_trace", "n_clinoforms"}
     arrays = {}
     for c in MARGIN_COLUMNS:

@@ -26,6 +26,7 @@ from .settings import ANALYTIC_SCENARIOS, GROUPS, AnalyticScenario
 from .seismic import SynthVelocity, ricker
 from .preview import plot_preview
 from .write import truth_path, write_line, write_segy
+from .bundle import demo_files, generate_bundle
 
 #: every scenario by name: the grown (bundled) ones first, then the analytic ones
 ALL_SCENARIOS = {**SCENARIOS, **ANALYTIC_SCENARIOS}
@@ -52,4 +53,6 @@ __all__ = [
     "get_scenario",
     "SynthVelocity",
     "ricker",
+    "demo_files",
+    "generate_bundle",
 ]

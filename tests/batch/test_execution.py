@@ -49,7 +49,8 @@ def test_batch_writes_one_valid_json_per_line_and_rebuilds_margins_csv(reference
     for r in rows:
         m = [m for m in docs[f"{r['stem']}.json"]["margins"] if m["direction"] == r["direction"]][0]
         if m["slope_max_deg"] is not None:
-            assert float(r["slope_max_deg"]) == pytest.approx(m["slope_max_deg"], rel=1e-12)
+            # margins.csv holds slopes to 0.1 deg (issue 13); the JSON keeps every digit
+            assert float(r["slope_max_deg"]) == pytest.approx(m["slope_max_deg"], abs=0.05 + 1e-9)
     assert _read_csv(out / "errors.csv") == []
     for n in BATCH_SCENARIOS:
         assert (out / f"{n}.horizons.csv").is_file() and not (out / f"{n}.png").exists()
@@ -145,8 +146,9 @@ def test_batch_over_a_3d_cube_gives_one_line_per_inline_and_a_map(tmp_path):
     for r in rows:
         if r["break_trace"]:
             idx = [i for i in range(il.size) if il[i] == int(r["line"].split()[1])][int(r["break_trace"])]
-            assert float(r["break_x"]) == pytest.approx(cx[idx], abs=0.01)
-            assert float(r["break_y"]) == pytest.approx(cy[idx], abs=0.01)
+            # margins.csv holds coordinates to 1 m (issue 13)
+            assert float(r["break_x"]) == pytest.approx(cx[idx], abs=0.5 + 1e-9)
+            assert float(r["break_y"]) == pytest.approx(cy[idx], abs=0.5 + 1e-9)
     for name in ("map.png", "summary.png", "index.html", f"cube_il{first}.png"):
         assert (out / name).read_bytes()[:4] == (b"\x89PNG" if name.endswith(".png") else b"<!DO")
 

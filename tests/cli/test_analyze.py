@@ -184,8 +184,9 @@ def test_horizons_picker_needs_a_horizon_file_and_another_picker_refuses_one(syn
     path, _ = synthetic_line_file
     code, _, err = _run(capsys, ["analyze", str(path), "--picker", "horizons", "--out", str(tmp_path)])
     assert code == 2
-    assert err == ("clinometry: error: the 'horizons' picker reads the interpreter's horizon: give horizons= "
-                   "(--horizons FILE.csv)\n")
+    # the command line names its own option, not the Python keyword (issue 13)
+    assert err == ("clinometry: error: the 'horizons' picker reads the interpreter's horizon: give "
+                   "--horizons FILE.csv\n")
     code, _, err = _run(capsys, ["analyze", str(path), "--picker", "default", "--horizons", "mine.csv",
                                  "--out", str(tmp_path)])
     assert code == 2

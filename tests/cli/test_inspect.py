@@ -73,3 +73,13 @@ def test_console_script_inspect_json():
     info = json.loads(proc.stdout)
     # reference README: f3-lsb.sgy is f3.sgy byte-swapped: little-endian, inlines 111-133
     assert info["byte_order"] == "little" and info["geometry"]["inline_range"] == [111, 133]
+
+
+def test_empty_textual_header_cards_are_collapsed():
+    from clinometry.cli.inspect import text_header_lines
+
+    # SEG-Y rev 1: 40 cards of 80 characters, "C" and the card number first (common practice, no source)
+    cards = [f"C{k:2d} LINE A" if k <= 3 else f"C{k:2d}" for k in range(1, 41)]
+    text = "\n".join(c.ljust(80) for c in cards)
+    assert text_header_lines(text) == ["C 1 LINE A", "C 2 LINE A", "C 3 LINE A", "(cards 4-40 empty)"]
+    assert text_header_lines("\n".join(["C 1"] * 1)) == ["C 1"]  # one empty card stays as it is

@@ -103,10 +103,85 @@ def test_summary_and_map_figures(tmp_path):
                                        ("steep_margin", 30.0, 800.0, 0.0, 500.0, None)]]
     s = summary_figure(rows, tmp_path / "summary.png")
     m = map_figure(rows, tmp_path / "map.png")
-    assert mpimg.imread(s).shape[:2] == (round(4.2 * 110), round(11.0 * 110))
+    # two families: two columns of 3.2 in plus 1 in, two rows (slope, relief) 7.4 in high, at 110 dpi
+    assert mpimg.imread(s).shape[:2] == (round(7.4 * 110), round(7.4 * 110))
     assert mpimg.imread(m).shape[:2] == (round(5.2 * 110), round(12.0 * 110))
+
+
+def test_summary_gives_each_family_its_own_scale():
+    from clinometry.report.figures.overview import summary_axes
+
+    rows = [{"family": "ramp", "slope_max_deg": s, "relief_m": 40.0 + s} for s in (0.4, 0.6, 0.9)]
+    rows += [{"family": "steep_margin", "slope_max_deg": s, "relief_m": 800.0, "review_status": "accepted"}
+             for s in (33.0, 41.0)]
+    fig = summary_axes(rows)
+    slope_axes = [ax for ax in fig.axes if ax.get_ylabel() == "maximum slope (°)"]
+    assert [ax.get_title().split(" ")[0] for ax in slope_axes] == ["ramp", "steep_margin"]
+    ramp_top, steep_top = (ax.get_ylim()[1] for ax in slope_axes)
+    assert ramp_top == pytest.approx(0.9 * 1.15) and steep_top == pytest.approx(41.0 * 1.15)
+    # the review decisions are named in a legend when any margin has one
+    legend_texts = [t.get_text() for lg in fig.legends for t in lg.get_texts()]
+    assert legend_texts == ["accepted", "not reviewed"]
 
 
 def test_map_figure_without_break_coordinates_writes_nothing(tmp_path):
     assert map_figure([{"family": "ramp", "break_x": None, "break_y": None}], tmp_path / "map.png") is None
     assert not (tmp_path / "map.png").exists()
+
+
+def _rejected_candidate(trace0=5):
+    t = list(range(trace0, trace0 + 20))
+    return {"direction": "+", "reason": "the platform top is 100 m long landward of the break (at least 250 m needed)",
+            "confidence": 0.62, "steepest": {"trace": trace0 + 10, "z": 200.0, "distance_m": (trace0 + 10) * 25.0},
+            "profile": {"trace": t, "z": [100.0 + 10.0 * k for k in range(20)]}}
+
+
+def test_qc_figure_without_margin_lists_and_draws_the_dropped_candidates(tmp_path):
+    from clinometry.report.figures.qc import _rejected_lines
+
+    res = _result()
+    res["margins"] = []
+    res["run"]["rejected_candidates"] = [_rejected_candidate(5), _rejected_candidate(30)]
+    path = qc_figure(res, _section(), tmp_path / "none.png")
+    img = mpimg.imread(path)[..., :3]
+    # the candidates are drawn in black dashes on a white halo: the section panel holds pure black pixels
+    # that the grey-scale noise section alone (clipped at its 98th percentile) also has, so compare with
+    # the same figure without candidates
+    res_none = dict(res, run={"notes": []})
+    plain = mpimg.imread(qc_figure(res_none, _section(), tmp_path / "plain.png"))[..., :3]
+    assert img.shape == plain.shape
+    assert np.abs(img - plain).sum() > 100  # something was drawn for the candidates
+    dist_km = np.arange(60) * 0.025
+    lines = _rejected_lines(res["run"]["rejected_candidates"], dist_km, 150)
+    text = " ".join(lines)
+    assert text.startswith("C1 at 0.38 km (trace 15), basin towards increasing traces, confidence 0.62")
+    assert "C2 at 1.00 km (trace 40)" in text
+    assert text.count("dropped because the platform top is 100 m long") == 2
+
+
+def test_qc_text_panel_wraps_every_reason_and_says_no_source_bookkeeping(tmp_path):
+    from clinometry.report.figures.qc import _margin_text
+
+    res = _result()
+    reasons = [f"reason {k}: " + "a long explanation of the rule that fired " * 3 + "(Widess 1973, from memory)"
+               for k in range(6)]
+    res["margins"][0]["reasons"] = reasons
+    lines = _margin_text(res["margins"][0])
+    joined = " ".join(s.strip() for s in lines)
+    for k in range(6):  # every reason is there in full, none cut
+        assert f"reason {k}: a long explanation" in joined
+    assert "more reason" not in joined and "from memory" not in joined
+    assert max(len(s) for s in lines) <= 60
+    # a taller text makes a taller figure rather than a cut panel
+    short = mpimg.imread(qc_figure(_result(), _section(), tmp_path / "short.png")).shape[0]
+    tall = mpimg.imread(qc_figure(res, _section(), tmp_path / "tall.png")).shape[0]
+    assert tall > short
+
+
+def test_qc_velocity_note_reads_as_words():
+    from clinometry.report._text import velocity_text
+
+    assert velocity_text({"model": "constant", "velocity_m_s": 2500.0}) == "velocity 2500 m/s (constant)"
+    flagged = velocity_text({"model": "constant", "velocity_m_s": 3000.0, "default_fallback": True})
+    assert flagged.startswith("velocity 3000 m/s") and "default velocity" in flagged
+    assert velocity_text({"model": "none"}) == "depth section: no velocity needed"

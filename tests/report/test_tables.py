@@ -113,9 +113,35 @@ def test_margins_csv_reads_back_with_stdlib_csv(tmp_path):
         back = list(csv.DictReader(fh))
     assert tuple(back[0]) == MARGIN_COLUMNS
     assert len(back) == 2
-    assert float(back[0]["relief_m"]) == 450.0
-    assert float(back[0]["slope_mean_deg"]) == 12.25
+    assert back[0]["relief_m"] == "450"  # 1 m
+    assert back[0]["slope_mean_deg"] == "12.2"  # 0.1 deg (12.25 is exact in binary: rounds half to even)
     assert back[1]["relief_m"] == "" and back[1]["family"] == ""
+
+
+def test_margins_csv_rounds_each_column_to_a_precision_that_means_something(tmp_path):
+    # 0.1 deg, 1 m, 0.01 confidence (precision a reviewer can use; common practice, no source)
+    row = dict.fromkeys(MARGIN_COLUMNS)
+    row.update(file="a.sgy", confidence=0.83666666, slope_max_deg=21.94441234, relief_m=339.6421,
+               break_depth_m=155.51, break_x=431234.5678, break_trace=17, trajectory_angle_deg=5.6789,
+               velocity_model="constant 3000 m/s", default_velocity="yes")
+    write_margins_csv([row], tmp_path / "m.csv")
+    with open(tmp_path / "m.csv", newline="") as fh:
+        back = next(csv.DictReader(fh))
+    assert (back["confidence"], back["slope_max_deg"], back["relief_m"]) == ("0.84", "21.9", "340")
+    assert (back["break_depth_m"], back["break_x"], back["break_trace"]) == ("156", "431235", "17")
+    assert back["trajectory_angle_deg"] == "5.7"
+    assert (back["velocity_model"], back["default_velocity"]) == ("constant 3000 m/s", "yes")
+    assert row["slope_max_deg"] == 21.94441234  # the rows themselves keep every digit
+
+
+def test_margin_rows_carry_the_velocity_model_and_the_default_flag():
+    res = _result()
+    res["velocity"] = {"model": "constant", "velocity_m_s": 3000.0, "default_fallback": True}
+    r = margin_rows(res)[0]
+    assert (r["velocity_model"], r["default_velocity"]) == ("constant 3000 m/s", "yes")
+    res["velocity"] = {"model": "linear", "v0_m_s": 1800.0, "k_per_s": 0.6, "default_fallback": False}
+    r = margin_rows(res)[0]
+    assert (r["velocity_model"], r["default_velocity"]) == ("linear 1800 m/s + 0.6/s z", "no")
 
 
 def test_errors_csv_quotes_commas_and_newlines(tmp_path):

@@ -52,9 +52,22 @@ ROLE_STYLES = {
 
 _BREAK_STYLE = dict(marker="v", s=90, color=OKABE_ITO["vermillion"], edgecolor="white", linewidth=1.0, zorder=6)
 _TOE_STYLE = dict(marker="^", s=90, color=OKABE_ITO["blue"], edgecolor="white", linewidth=1.0, zorder=6)
+#: how a candidate the picker dropped is drawn on the section (black dashes on a white halo:
+#: every palette colour already names a pick)
+_REJECTED_STYLE = dict(color=OKABE_ITO["black"], ls=(0, (4, 2)), lw=1.5, zorder=5)
 _FONT_SIZE = 9
-#: most lines of text in a margin's text panel (fits the panel at 7.6 pt)
-_MAX_TEXT_LINES = 19
+
+#: how each review state is marked in the summary and map figures: (marker, label); the colour stays
+#: the family's.  Keys are the states of :data:`clinometry.report.review.REVIEW_STATES`.
+REVIEW_MARKERS = {
+    "accepted": ("o", "accepted"),
+    "needs-work": ("s", "needs work"),
+    "rejected": ("X", "rejected"),
+    "changed since review": ("D", "changed since review"),
+    "": ("o", "not reviewed"),
+}
+#: height of one line of text in a margin's text panel at 7.6 pt with 1.25 line spacing (inch)
+_TEXT_LINE_IN = 0.14
 
 
 def _as_dict(result):

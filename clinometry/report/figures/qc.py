@@ -18,11 +18,13 @@ import textwrap
 
 import numpy as np
 
+from .._text import DEFAULT_VELOCITY_FLAG, user_text, velocity_text
 from ..tables import margin_percentile, margin_value
 from ._style import (
     _BREAK_STYLE,
     _FONT_SIZE,
-    _MAX_TEXT_LINES,
+    _REJECTED_STYLE,
+    _TEXT_LINE_IN,
     _TOE_STYLE,
     FAMILY_COLORS,
     OKABE_ITO,
@@ -148,18 +150,6 @@ def _margin_profile(margin, groups):
     return d, z, s
 
 
-def _velocity_text(vel):
-    """One line about the velocity model of a result."""
-    model = vel.get("model", "none")
-    params = ", ".join(f"{k} {v:g}" for k, v in vel.items()
-                       if k not in ("model", "default_fallback") and isinstance(v, (int, float))
-                       and not isinstance(v, bool))
-    text = f"{model} ({params})" if params else str(model)
-    if vel.get("reason"):
-        text += f" - {vel['reason']}"
-    return text + (" - package default, no velocity given" if vel.get("default_fallback") else "")
-
-
 def _fmt(v, unit="", digits=1):
     if v is None:
         return "n/a"
@@ -178,7 +168,12 @@ def _metric_line(margin, key, label, unit, digits=1):
     return text
 
 
+def _wrapped(text, width, first="  - ", rest="    "):
+    return textwrap.wrap(user_text(text), width, initial_indent=first, subsequent_indent=rest) or [first.rstrip()]
+
+
 def _margin_text(margin, number=1, width=56):
+    """The lines of a margin's text panel: every reason and every missing value, wrapped (never cut)."""
     fam = margin.get("family") or "unclassified"
     sub = margin.get("subtype")
     conf = margin.get("confidence")
@@ -189,6 +184,7 @@ def _margin_text(margin, number=1, width=56):
         _metric_line(margin, "slope_max_deg", "Max slope", "°"),
         _metric_line(margin, "slope_mean_deg", "Mean slope", "°"),
         _metric_line(margin, "relief_m", "Relief", " m", 0),
+        _metric_line(margin, "break_depth_m", "Break depth", " m", 0),
     ]
     traj = margin.get("trajectory") or {}
     if traj:
@@ -198,18 +194,55 @@ def _margin_text(margin, number=1, width=56):
     reasons = list(margin.get("reasons") or [])
     if reasons:
         lines.append("Reasons:")
-        for r in reasons[:3]:
-            lines.extend(textwrap.wrap(str(r), width, initial_indent="  - ", subsequent_indent="    "))
-        if len(reasons) > 3:
-            lines.append(f"  ... {len(reasons) - 3} more reason(s) in the JSON")
+        for r in reasons:
+            lines.extend(_wrapped(r, width))
     missing = margin.get("missing") or {}
     if isinstance(missing, dict) and missing:
         lines.append("Not measured:")
-        for k, why in list(missing.items())[:3]:
-            lines.extend(textwrap.wrap(f"{k}: {why}", width, initial_indent="  - ", subsequent_indent="    "))
-    if len(lines) > _MAX_TEXT_LINES:  # keep the panel inside its box; the JSON has everything
-        lines = lines[: _MAX_TEXT_LINES - 1] + ["  ... more in the JSON"]
-    return "\n".join(lines)
+        for k, why in missing.items():
+            lines.extend(_wrapped(f"{k}: {why}", width))
+    return lines
+
+
+def _rejected(res):
+    """The candidates the picker dropped, from the results (``run.rejected_candidates``)."""
+    items = (res.get("run") or {}).get("rejected_candidates") or []
+    return [c for c in items if isinstance(c, dict) and (c.get("profile") or {}).get("trace")]
+
+
+def _draw_rejected(ax, rejected, dist_km):
+    """Draw each dropped candidate's profile on the section, labelled C1, C2, ... at its steepest point."""
+    from matplotlib import patheffects
+
+    for k, c in enumerate(rejected, start=1):
+        t = np.asarray(c["profile"]["trace"], dtype=int)
+        z = np.asarray([np.nan if v is None else v for v in c["profile"]["z"]], dtype=float)
+        ok = (t >= 0) & (t < dist_km.size)
+        ax.plot(dist_km[t[ok]], z[ok], **_REJECTED_STYLE,
+                path_effects=[patheffects.withStroke(linewidth=3.2, foreground="white")])
+        st = c.get("steepest") or {}
+        if st.get("trace") is not None and 0 <= st["trace"] < dist_km.size and st.get("z") is not None:
+            x, y = dist_km[st["trace"]], st["z"]
+            ax.scatter([x], [y], marker="X", s=60, color=_REJECTED_STYLE["color"], edgecolor="white",
+                       linewidth=0.8, zorder=7)
+            ax.annotate(f"C{k}", (x, y), xytext=(6, -10), textcoords="offset points", fontsize=8.5,
+                        fontweight="bold", color=_REJECTED_STYLE["color"],
+                        bbox=dict(boxstyle="round,pad=0.15", fc="white", ec="none", alpha=0.85), zorder=8)
+
+
+def _rejected_lines(rejected, dist_km, width):
+    """One wrapped entry per dropped candidate: where it was, its confidence and why it was dropped."""
+    lines = []
+    for k, c in enumerate(rejected, start=1):
+        st = c.get("steepest") or {}
+        where = ""
+        if st.get("trace") is not None and 0 <= st["trace"] < dist_km.size:
+            where = f" at {dist_km[st['trace']]:.2f} km (trace {st['trace']})"
+        side = "increasing" if c.get("direction") == "+" else "decreasing"
+        head = (f"C{k}{where}, basin towards {side} traces, confidence {_fmt(c.get('confidence'), '', 2)}: "
+                f"dropped because {c.get('reason') or 'no reason given'}")
+        lines.extend(_wrapped(head, width, first="", rest="    "))
+    return lines
 
 
 def qc_figure(result, section, path, *, horizons=None, title=None):
@@ -258,10 +291,23 @@ def qc_figure(result, section, path, *, horizons=None, title=None):
     clip = float(np.percentile(np.abs(finite), 98)) if finite.size else 1.0
     clip = clip if clip > 0 else 1.0
 
-    n_rows = 1 + max(1, len(margins))
-    fig = _figure((13.0, 4.8 + 2.9 * max(1, len(margins))))
-    gs = fig.add_gridspec(n_rows, 2, width_ratios=[2.4, 1.0], height_ratios=[1.7] + [1.0] * (n_rows - 1),
-                          hspace=0.42, wspace=0.06, left=0.07, right=0.97, top=0.92, bottom=0.06)
+    rejected = _rejected(res)
+    texts = [_margin_text(m, i + 1) for i, m in enumerate(margins)]
+    if not margins:
+        run = res.get("run") or {}
+        general = [n for n in (run.get("notes") or []) if "dropped:" not in str(n)]
+        texts = [["No margin on this line."]
+                 + [w for n in general for w in _wrapped(n, 150, first="", rest="    ")]
+                 + ([""] + ["Candidates considered and dropped (drawn on the section as C1, C2, ...):"]
+                    + _rejected_lines(rejected, dist_km, 150) if rejected else
+                    ["", "The picker reported no candidate that came close to a margin."])]
+    # each lower row is as tall as its text needs (every reason is shown, wrapped), at least 2.9 in
+    row_in = [max(2.9, _TEXT_LINE_IN * (len(t) + 1)) for t in texts]
+    section_in = 4.8
+    fig = _figure((13.0, section_in + sum(row_in)))
+    gs = fig.add_gridspec(1 + len(row_in), 2, width_ratios=[2.4, 1.0], height_ratios=[section_in * 0.62] + row_in,
+                          hspace=0.42, wspace=0.06, left=0.07, right=0.97, top=1.0 - 0.55 / fig.get_figheight(),
+                          bottom=0.45 / fig.get_figheight())
     ax = fig.add_subplot(gs[0, 0])
     lax = fig.add_subplot(gs[0, 1])  # legend and notes beside the section
     lax.axis("off")
@@ -295,6 +341,10 @@ def qc_figure(result, section, path, *, horizons=None, title=None):
                 seen_roles.add(lab)
                 handles.append(Line2D([], [], linestyle="none", marker=style["marker"], color=style["color"],
                                       markeredgecolor="white", markersize=size, label=lab))
+    if rejected:
+        _draw_rejected(ax, rejected, dist_km)
+        handles.append(Line2D([], [], marker="X", markeredgecolor="white", markersize=8, label="dropped candidate (C1, ...)",
+                              **{k: v for k, v in _REJECTED_STYLE.items() if k in ("color", "ls", "lw")}))
     ax.set_xlim(dist_km[0], dist_km[-1])
     ax.set_ylim(z[-1], z[0])
     ax.set_xlabel("distance along line (km)", fontsize=_FONT_SIZE)
@@ -321,20 +371,20 @@ def qc_figure(result, section, path, *, horizons=None, title=None):
     name = title or " ".join(s for s in (base, str(src.get("line_label") or "")) if s)
     vel = res.get("velocity") or {}
     if vel.get("default_fallback"):
-        name += "   [default velocity used: depths approximate]"
+        name += f"   [{DEFAULT_VELOCITY_FLAG}]"
     ax.set_title(f"{name}\n{ve_text}", fontsize=10, loc="left")
-    notes = [f"velocity: {_velocity_text(res.get('velocity') or {})}"]
-    notes += [f"fallback: {f}" for f in ((res.get("run") or {}).get("fallbacks") or [])[:2]]
+    notes = [velocity_text(vel)]
+    notes += [f"fallback: {user_text(f)}" for f in ((res.get("run") or {}).get("fallbacks") or [])
+              if "no velocity given" not in str(f)]
     notes.append("Automatic picks: check them against the section before use.")
     lax.text(0.0, 0.0, "\n".join(textwrap.fill(n, 52, subsequent_indent="  ") for n in notes), va="bottom",
              ha="left", fontsize=7.6, transform=lax.transAxes)
 
     if not margins:
-        tax = fig.add_subplot(gs[1, 0])
+        tax = fig.add_subplot(gs[1, :])
         tax.axis("off")
-        why = "; ".join(str(n) for n in (res.get("notes") or [])) or "the picker found no platform margin on this line"
-        tax.text(0.0, 0.9, "No margin on this line.\n" + "\n".join(textwrap.wrap(why, 110)),
-                 va="top", fontsize=_FONT_SIZE + 1, transform=tax.transAxes)
+        tax.text(0.0, 1.0, "\n".join(texts[0]), va="top", fontsize=_FONT_SIZE, transform=tax.transAxes,
+                 linespacing=1.25)
     for i, m in enumerate(margins):
         pax = fig.add_subplot(gs[1 + i, 0])
         color = FAMILY_COLORS.get(m.get("family"), FAMILY_COLORS[None])
@@ -370,6 +420,6 @@ def qc_figure(result, section, path, *, horizons=None, title=None):
         tax = fig.add_subplot(gs[1 + i, 1])
         tax.axis("off")
         tax.add_patch(Rectangle((0.0, 0.93), 0.04, 0.06, color=color, transform=tax.transAxes, clip_on=False))
-        tax.text(0.06, 1.0, _margin_text(m, i + 1), va="top", ha="left", fontsize=7.6, family="DejaVu Sans",
+        tax.text(0.06, 1.0, "\n".join(texts[i]), va="top", ha="left", fontsize=7.6, family="DejaVu Sans",
                  transform=tax.transAxes, linespacing=1.25)
     return _save(fig, path)
