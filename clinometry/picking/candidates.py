@@ -488,7 +488,7 @@ def _reextract(images, s, leg, b0):
 
     None when the re-extracted profile has no leg facing the same way there.
     """
-    from .face_extension import extend_faces
+    from .face_extension import MAX_ONLAP_STEPS, continue_below_onlap, extend_faces
     from .tracking import path_through, refine, run_support
 
     img = images.cost
@@ -511,6 +511,43 @@ def _reextract(images, s, leg, b0):
         return None
     scale = "leg" if b0.sigma_traces > max(images.smoothing_m / images.dx_m, 0.5) + 1e-9 else "slope"
     bw = leg_bends(xw, dep, g, smoothing_m=images.smoothing_m, scale=scale)
+    # a toe that is a fill reflector lapping onto the slope is not the toe:
+    # the slope goes on below it, to the floor it rests on
+    reach = max(2, int(round(images.wavelength_m / images.dx_m)))
+    for _ in range(MAX_ONLAP_STEPS):
+        if bw.toe is None or bw.shelf_break is None:
+            break
+        sgn = 1.0 if leg.direction == "+" else -1.0
+        gz = sgn * np.gradient(smooth_profile(zi, max(1.0, 0.5 * bw.sigma_traces)))
+        a_, b_ = sorted((bw.shelf_break, bw.toe))
+        steep = gz[a_ : b_ + 1]
+        steep = steep[steep >= 0.5 * steep.max()] if steep.size and steep.max() > 0 else steep
+        dip = float(np.median(steep)) if steep.size else 0.0
+        got = continue_below_onlap(zi, cells, strength, bw.toe, direction=leg.direction, dip_samples=dip,
+                                   reach=reach, cell_of=images.cells, limit=2 * abs(b_ - a_) + reach)
+        if got is None:
+            break
+        zc, inf2, f = got
+        t_f = lo + f
+        if leg.direction == "+":
+            floor_cells = path_through(pol_img, t_f, int(images.cells(zc[f])), direction="+", lo=t_f, hi=hi)
+            part = slice(f, hi - lo)
+        else:
+            floor_cells = path_through(pol_img, t_f, int(images.cells(zc[f])), direction="-", lo=lo, hi=t_f + 1)
+            part = slice(0, f + 1)
+        zf, _ = refine(images.envelope[lo:hi][part], floor_cells, img.factor, amplitude=images.amplitude,
+                       polarity=s.polarity, rows=np.arange(lo, hi)[part])
+        zc[part] = zf
+        zc[f] = zf[0] if leg.direction == "+" else zf[-1]
+        cells = np.where(inf2, images.cells(zc), cells)
+        cells[part] = floor_cells
+        zi = zc
+        inferred |= inf2
+        dep = images.depth_of(np.arange(lo, hi), zi)
+        g2 = _local_legs(xw, dep, images.smoothing_m, images.min_relief_m, p - lo, leg.direction)
+        if g2 is None:
+            break
+        bw = leg_bends(xw, dep, g2, smoothing_m=images.smoothing_m, scale=scale)
     q = strength[np.arange(hi - lo), cells].astype(float)
     sup = run_support(strength, cells)
     q[images.dead[lo:hi] | inferred] = 0.0

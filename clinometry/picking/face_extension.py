@@ -33,7 +33,8 @@ import numpy as np
 
 from ._kernels import run_means
 
-__all__ = ["extend_faces", "JUMP_PERIODS", "MIN_IMAGED_STEPS", "GAP_STRENGTH_FRACTION"]
+__all__ = ["extend_faces", "floor_terminates", "continue_below_onlap", "JUMP_PERIODS", "MIN_IMAGED_STEPS",
+           "GAP_STRENGTH_FRACTION", "MAX_ONLAP_STEPS"]
 
 #: a step between neighbouring traces of more than this many dominant periods
 #: is a drop, not a slope, when its vertical run lies in a gap (our choice)
@@ -50,6 +51,12 @@ MIN_FACE_STEP_SAMPLES = 0.5
 #: the imaged stretch may end this many steps before the drop (the face
 #: flattens a little where fill onlaps it; our choice)
 MAX_STALL_STEPS = 3
+#: the reflection a continued slope rests on is at least this strong (0..1;
+#: our choice, no source)
+FLOOR_STRENGTH = 0.3
+#: a slope is continued past at most this many onlapping fill reflectors
+#: (our choice, no source)
+MAX_ONLAP_STEPS = 3
 #: a continuation is at most this many times longer (in traces) than the imaged
 #: stretch it continues (our choice, no source)
 MAX_EXTENSION_FACTOR = 2.0
@@ -156,3 +163,114 @@ def extend_faces(z_index, cells, strength, *, direction: str, period_samples: fl
                 z[fill] = z[b0] - d * (b0 - fill)
                 inferred[fill] = True
     return z, inferred
+
+
+def floor_terminates(strength, cells, toe, *, direction: str, reach: int, fraction: float = None) -> bool:
+    """Whether the reflection a profile runs onto at its toe ends against the slope (onlap).
+
+    At a toe the slope runs onto a basin floor that lies beneath it as well
+    (the slope downlaps onto it, or it is older than the slope).  Where the
+    "floor" is a fill reflector lapping onto the slope, it ends there: the
+    image at its level landward of the toe, beneath the slope, holds no
+    reflection.  ``reach`` traces landward of the toe are read at the toe's
+    cell; the floor ends when their mean strength is below ``fraction``
+    (:data:`GAP_STRENGTH_FRACTION`) of the floor's own just basinward of it.
+
+    Parameters
+    ----------
+    strength : numpy.ndarray, shape (n, n_cell)
+    cells : numpy.ndarray of int, shape (n,)
+        The profile's cells.
+    toe : int
+        Index of the toe in the window.
+    direction : {"+", "-"}
+    reach : int
+        Traces read on each side.
+
+    Returns
+    -------
+    bool
+
+    Examples
+    --------
+    >>> s = np.zeros((20, 10)); s[10:, 6] = 1.0     # a reflector from trace 10 basinward only
+    >>> c = np.r_[np.full(10, 2), np.full(10, 6)]
+    >>> floor_terminates(s, c, 10, direction="+", reach=4)
+    True
+    >>> s[:, 6] = 1.0                                # ... or right across
+    >>> floor_terminates(s, c, 10, direction="+", reach=4)
+    False
+    """
+    f = GAP_STRENGTH_FRACTION if fraction is None else fraction
+    n = strength.shape[0]
+    step = 1 if direction == "+" else -1
+    z = int(cells[toe])
+    basin = [toe + step * k for k in range(1, reach + 1) if 0 <= toe + step * k < n]
+    # landward from half a reach on: the toe of a smoothed profile lies a
+    # little basinward of the point where the fill meets the slope
+    land = [toe - step * k for k in range(max(1, reach // 2), reach + reach // 2 + 1) if 0 <= toe - step * k < n]
+    if not basin or not land:
+        return False
+    own = float(np.mean([strength[t, cells[t]] for t in basin]))
+    under = float(np.mean([strength[t, max(0, z - 1) : z + 2].max() for t in land]))
+    return own > 0 and under < f * own
+
+
+def continue_below_onlap(z_index, cells, strength, toe, *, direction: str, dip_samples: float, reach: int,
+                         cell_of, limit: int):
+    """Continue a slope past a toe that is an onlap point, down to the reflector it really rests on.
+
+    Where the profile's toe is a fill reflector that ends against the slope
+    (:func:`floor_terminates`), the slope goes on below it.  It is continued
+    at ``dip_samples`` per trace (the slope's own dip along its steep part)
+    until it meets a reflection that does not end against it -- strong at the
+    continued slope and beneath it landward as well: the basin floor.
+
+    Parameters
+    ----------
+    z_index, cells, strength, toe, direction, reach
+        As for :func:`floor_terminates`.
+    dip_samples : float
+        The slope's apparent dip, samples per trace, basinward.
+    cell_of : callable
+        z index -> cell index.
+    limit : int
+        At most this many traces of continuation.
+
+    Returns
+    -------
+    (z, inferred, floor) or None
+        The continued profile up to the floor trace (beyond it unchanged),
+        where it is continued, and the window index where it meets the floor;
+        None when the toe is not an onlap point or no floor is met.
+    """
+    z = np.asarray(z_index, dtype=float).copy()
+    c = np.asarray(cells)
+    n = z.size
+    if dip_samples <= 0 or not floor_terminates(strength, c, toe, direction=direction, reach=reach):
+        return None
+    step = 1 if direction == "+" else -1
+    inferred = np.zeros(n, bool)
+    t = toe
+    zt = z[toe]
+    m = strength.shape[1]
+    for _ in range(int(limit)):
+        t += step
+        zt += dip_samples
+        if not 0 <= t < n:
+            return None
+        cz = int(cell_of(zt))
+        if cz >= m - 1:
+            return None
+        z[t] = zt
+        inferred[t] = True
+        # a reflection at the continued slope that lies beneath it landward as
+        # well is the floor it rests on
+        lo, hi = max(0, cz - 1), min(m, cz + 2)
+        on = float(strength[t, lo:hi].max())
+        land = [t - step * j for j in range(max(1, reach // 2), reach + reach // 2 + 1) if 0 <= t - step * j < n]
+        under = float(np.mean([strength[u, lo:hi].max() for u in land])) if land else 0.0
+        if on >= FLOOR_STRENGTH and under >= GAP_STRENGTH_FRACTION * on:
+            inferred[t] = False
+            return z, inferred, t
+    return None
