@@ -38,7 +38,7 @@ logger = logging.getLogger(__name__)
 #: weight of each piece of evidence in the confidence (our choice, no source:
 #: the platform top and the slope face carry a margin; floor, onlap and the
 #: change of character confirm it)
-WEIGHTS = {"platform_top": 0.35, "slope_face": 0.3, "basin_floor": 0.15, "onlap": 0.05, "character": 0.15}
+WEIGHTS = {"platform_top": 0.3, "slope_face": 0.3, "basin_floor": 0.1, "onlap": 0.15, "character": 0.15}
 #: confidence factor of a margin whose break or toe lies at the edge of the
 #: record or within one smoothing length of a line end (common practice, no source)
 EDGE_FACTOR = 0.5

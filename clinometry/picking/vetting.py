@@ -12,8 +12,10 @@ guard against:
 * :func:`staircase`: a profile that steps from one flat reflector to another
   through weak image or across layering that continues (a jump between
   reflectors);
-* :func:`fold`: a bend that the layers beneath it share (a fold, a tilted
-  fault block);
+* :func:`drape`: a bend with the layers above it running parallel to it
+  (drape or compaction over older relief, a fold);
+* :func:`fold`: a bend that the layers above and beneath it share (a fold,
+  a tilted fault block);
 * :func:`too_small`: relief below the seismic resolution;
 * :func:`jitter`: a slope narrower than the lateral resolution of the
   picks (pick jitter, a single-trace step);
@@ -43,6 +45,7 @@ __all__ = [
     "cuts_layering",
     "unimaged_face",
     "implausible_slope",
+    "drape",
     "fold",
     "too_small",
     "jitter",
@@ -75,7 +78,7 @@ MIN_TOP_TRACES = 10
 MIN_TOP_WAVELENGTHS = 1.0
 #: the top is flatter than the slope when its gradient is below this fraction
 #: of the steepest slope (common practice, no source)
-TOP_FLATNESS_FRACTION = 0.5
+TOP_FLATNESS_FRACTION = 0.3
 #: a steep slope is a staircase when this share of its vertical runs lies on
 #: weak image (our choice, no source) ...
 STAIRCASE_GAP_SHARE = 0.5
@@ -84,9 +87,9 @@ STAIRCASE_GAP_SHARE = 0.5
 STAIRCASE_LAYERING = 0.85
 #: reflections beside a slope are parallel to it when at most this share of
 #: them is discordant (our choice, no source) ...
-DRAPE_MAX_DISCORDANT = 0.25
+DRAPE_MAX_DISCORDANT = 0.3
 #: ... read on at least this many coherent cells
-DRAPE_MIN_CELLS = 10
+DRAPE_MIN_CELLS = 20
 #: a ramp's relief is spread along it: no single smoothing length holds more
 #: than this share of it (our choice, no source)
 RAMP_STEP_SHARE = 0.5
@@ -205,6 +208,22 @@ def implausible_slope(slope_max_deg):
     if slope_max_deg > MAX_SLOPE_DEG:
         return (f"the slope dips {slope_max_deg:.0f} deg, steeper than the {MAX_SLOPE_DEG:.0f} deg carbonate slopes "
                 "stand at: a fault or a jump of the picks, not a slope")
+    return None
+
+
+def drape(onlap):
+    """Reflections beside the slope, in the layers above it, that run parallel to it: drape or a fold.
+
+    Guards against the bends of overburden reflectors above a mound or a
+    margin (drape, compaction relief) and against folds: the fill in front
+    of a margin laps onto its slope, so most reflections one and a half to
+    three and a half periods off the slope, into the fill, are discordant
+    with it.  A thin drape on the slope itself lies nearer than that.
+    """
+    above, n_above = _v(onlap, "above_discordant"), _v(onlap, "n_above", 0.0)
+    if math.isfinite(above) and n_above >= DRAPE_MIN_CELLS and above <= DRAPE_MAX_DISCORDANT:
+        return (f"the reflections in the layers above the slope run parallel to it ({100 * (1 - above):.0f}% "
+                "concordant): drape or a fold, not a margin")
     return None
 
 
@@ -332,6 +351,7 @@ def vet(evidence: dict, images, *, slope_max_deg, relief_m, min_relief_m, n_slop
         cuts_layering(face),
         unimaged_face(face),
         implausible_slope(slope_max_deg),
+        drape(onl),
         fold(onl, char),
         too_small(relief_m, min_relief_m),
         jitter(n_slope_traces) if has_break else None,

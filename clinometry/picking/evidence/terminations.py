@@ -33,11 +33,14 @@ __all__ = ["onlap", "OFFSET_PERIODS", "MIN_DIP_SAMPLES"]
 #: choice, no source
 OFFSET_PERIODS = (1.5, 2.5, 3.5)
 #: slopes dipping less than this (samples per trace) are not compared (our choice)
-MIN_DIP_SAMPLES = 0.3
+MIN_DIP_SAMPLES = 0.15
 #: a cell off the slope counts as a reflection when its envelope reaches this
 #: fraction of the slope's own (and the image's background); weaker ringing
 #: of the slope's wavelet does not (our choice, no source)
 RELATIVE_STRENGTH = 0.2
+#: dips closer than this (samples per trace) are not told apart: the
+#: structure tensor's dip error on coherent reflections (our choice, no source)
+DIP_RESOLUTION = 0.1
 #: fewest coherent cells for a reading
 MIN_CELLS = 5
 #: a reflection is discordant when its dip differs from the slope's by more
@@ -106,7 +109,7 @@ def _discordance(rd, coh, pd):
     if keep.sum() < MIN_CELLS:
         return float("nan"), int(keep.sum())
     w = coh[keep]
-    disc = np.abs(rd[keep] - pd[keep]) > DISCORDANT_FRACTION * np.abs(pd[keep])
+    disc = np.abs(rd[keep] - pd[keep]) > np.maximum(DISCORDANT_FRACTION * np.abs(pd[keep]), DIP_RESOLUTION)
     return float(np.sum(w * disc) / np.sum(w)), int(keep.sum())
 
 
