@@ -18,13 +18,15 @@ __all__ = ["dp_forward", "backtrack", "run_means"]
 
 
 @njit(cache=True, nogil=True)
-def dp_forward(cost, dip, coh, vlen, max_step, anisotropy, floor, dip_weight, down_factor, up_factor, start, back):
+def dp_forward(cost, run_cost, dip, coh, vlen, max_step, anisotropy, floor, dip_weight, down_factor, up_factor, start, back):
     """Accumulated cost of the best path ending at each cell of the last row.
 
     Parameters
     ----------
     cost : float32 (n, m)
         Cell costs 0..1.
+    run_cost : float32 (n, m)
+        Cost of a cell crossed by a vertical run between two rows.
     dip, coh : float32 (n, m)
         Reflection dip (cells per row) and coherence 0..1 of each cell.
     vlen : float64 (m,)
@@ -58,8 +60,8 @@ def dp_forward(cost, dip, coh, vlen, max_step, anisotropy, floor, dip_weight, do
         # prefix sums of the vertical cost between rows i - 1 and i
         csum[0] = 0.0
         for z in range(1, m):
-            a = min(cost[i - 1, z - 1], cost[i, z - 1])
-            b = min(cost[i - 1, z], cost[i, z])
+            a = min(run_cost[i - 1, z - 1], run_cost[i, z - 1])
+            b = min(run_cost[i - 1, z], run_cost[i, z])
             csum[z] = csum[z - 1] + 0.5 * (vlen[z - 1] * (anisotropy * a + floor) + vlen[z] * (anisotropy * b + floor))
         for z1 in range(m):
             best = np.inf
