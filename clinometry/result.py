@@ -84,8 +84,10 @@ REQUIRED_MARGIN_KEYS = (
 #: metric values that every margin carries (null with a reason if unmeasured)
 _CORE_VALUES = ("relief_m", "slope_max_deg", "slope_mean_deg")
 
-#: shelf-break trajectory classes after Helland-Hansen & Martinsen (1996)
-TRAJECTORY_CLASSES = ("ascending", "flat", "descending")
+#: trajectory classes: the three of Helland-Hansen & Martinsen (1996) where the
+#: whole P10-P90 interval of the angle lies in one, else the interval's name
+#: (see :func:`clinometry.metrics.trajectory.interval_class`)
+TRAJECTORY_CLASSES = ("ascending", "flat", "descending", "flat_or_ascending", "flat_or_descending", "unresolved")
 
 # keys of a margin dict that are not metric values
 _MARGIN_RESERVED = frozenset(
