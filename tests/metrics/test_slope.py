@@ -7,7 +7,7 @@ from numpy.testing import assert_allclose
 from clinometry.depth import ConstantVelocity, LinearVelocity
 from clinometry.metrics import measure_picks
 from clinometry.metrics.margin_geometry import margin_geometry
-from clinometry.metrics.slope import secant_slope_max_deg, slope_metrics
+from clinometry.metrics.slope import foreset_slope_deg, slope_metrics
 
 
 def _slope(picks, section, velocity=None, **kw):
@@ -61,7 +61,7 @@ def test_metrics_and_truth_share_one_max_slope_definition():
     i, j = t["break"], t["toe"]
     base = slope_base_length_m(12.5, 2.5, (d[j] - d[i]) / (s[j] - s[i]))
     assert t["slope_base_length_m"] == pytest.approx(base)
-    got = float(secant_slope_max_deg(s, d, s[i], s[j], base))
+    got = float(foreset_slope_deg(s, d, s[i], s[j], base))
     assert got == pytest.approx(t["slope_max_deg"], abs=1e-9)
     # the 150 m secant is a little below the point maximum atan(H / (w sqrt(pi))) = 29.4 deg
     assert np.degrees(np.arctan(h / (w * np.sqrt(np.pi)))) - 1.0 < got < np.degrees(np.arctan(h / (w * np.sqrt(np.pi))))
@@ -152,12 +152,12 @@ def test_max_slope_base_length_smooths_one_sample_step(build_margin):
     assert_allclose(v50["slope_max_deg"], np.degrees(np.arctan(5.0 / 50.0)), rtol=1e-9)
 
 
-def test_secant_slope_max_short_window_is_chord():
+def test_foreset_slope_short_window_is_the_least_squares_line():
     xs = np.arange(0.0, 201.0, 10.0)
     ds = 2.0 * xs
-    # window 30 m < base 100 m: the chord between the window ends, atan(2)
-    assert_allclose(secant_slope_max_deg(xs, ds, 50.0, 80.0, 100.0), np.degrees(np.arctan(2.0)))
-    assert np.isnan(secant_slope_max_deg(xs, ds, 80.0, 50.0, 100.0))
+    # window 30 m < base 100 m: the least-squares line over the window, atan(2) (straight line)
+    assert_allclose(foreset_slope_deg(xs, ds, 50.0, 80.0, 100.0), np.degrees(np.arctan(2.0)))
+    assert np.isnan(foreset_slope_deg(xs, ds, 80.0, 50.0, 100.0))
 
 
 def test_missing_toe_gives_reasons_not_values(build_margin, planar):

@@ -13,9 +13,8 @@ from clinometry.picking.condition import (
     envelope,
     envelope_in_place,
     fill_dead_traces,
-    quantile_sample,
-    weighted_gaussian,
 )
+from clinometry.picking._blocks import quantile_sample, weighted_gaussian
 
 
 def test_dead_trace_mask_finds_zero_nan_and_constant_traces():

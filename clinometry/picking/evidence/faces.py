@@ -116,6 +116,9 @@ def slope_face(images, c) -> Evidence:
         flat_share = float(np.sum(w * flat) / np.sum(w))
     else:
         agreement = flat_share = float("nan")
+    al = steep & aliased & (coh >= MIN_COHERENCE)
+    flat_aliased = (float(np.sum(coh[al] * (np.abs(rdip[al]) <= (1.0 - DIP_TOLERANCE) * np.abs(pdip[al]) * 0.5))
+                          / np.sum(coh[al])) if al.any() else float("nan"))
     gaps = _run_gaps(images, c, tr[steep]) if steep.any() else float("nan")
     inferred = float(np.mean(c.inferred[k])) if c.inferred is not None and k.size else 0.0
     vals = {
@@ -128,6 +131,8 @@ def slope_face(images, c) -> Evidence:
         "flat_share": flat_share,
         "n_dip": int(readable.sum()),
         "aliased_share": float(np.mean(aliased[steep])) if steep.any() else 0.0,
+        "flat_aliased": flat_aliased,
+        "n_aliased": int(al.sum()),
     }
     # a face continued where it is not imaged is weaker evidence of itself
     score = mean_score([ramp(vals["support"], 0.3, 0.8), 1.0 - gaps, agreement]) * (1.0 - 0.5 * inferred)
