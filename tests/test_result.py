@@ -21,6 +21,7 @@ from clinometry.result import (
     REQUIRED_MARGIN_KEYS,
     REQUIRED_SOURCE_KEYS,
     SCHEMA_VERSION,
+    TRAJECTORY_CLASSES,
     Result,
     json_safe,
     validate_result_dict,
@@ -259,7 +260,7 @@ def test_contract_json_written_by_cli_has_every_key_and_type(analyzed_json):
         for c in m["clinoforms"]:
             assert {"break", "toe", "slope_max_deg"} <= set(c)
         t = m["trajectory"]
-        assert t is None or (t["class"] in ("ascending", "flat", "descending") and "angle_deg" in t)
+        assert t is None or (t["class"] in TRAJECTORY_CLASSES and "angle_deg" in t)
 
 
 def test_contract_json_matches_truth_direction_and_rereads(analyzed_json):

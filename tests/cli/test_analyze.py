@@ -139,7 +139,7 @@ def test_console_script_runs_plugins_listing():
     proc = subprocess.run([script, "plugins", "--kind", "picker"], capture_output=True, text=True, timeout=120)
     assert proc.returncode == 0, proc.stderr
     assert proc.stdout.splitlines()[:2] == ["pickers (clinometry.pickers):",
-                                            "  default  [clinometry.picking.surfaces:pick_default]"]
+                                            "  default  [clinometry.picking.default:pick_default]"]
 
 
 def test_depth_domain_file_needs_no_velocity(synthetic_shelf, tmp_path, capsys):

@@ -17,13 +17,13 @@ def test_synth_list_shows_every_scenario(capsys):
 
 
 def test_synth_writes_line_and_truth(tmp_path, capsys):
-    out = tmp_path / "ramp.sgy"
-    rc = main(["synth", "--scenario", "gentle_ramp", "--out", str(out), "--snr", "3", "--seed", "4",
+    out = tmp_path / "shelf.sgy"
+    rc = main(["synth", "--scenario", "rimmed_shelf", "--out", str(out), "--snr", "3", "--seed", "4",
                "--wavelet-hz", "25", "--velocity", "2200", "--format", "ibm", "--delay", "40"])
     assert rc == 0
     stdout = capsys.readouterr().out
-    assert f"wrote {out}" in stdout and "ramp.truth.json" in stdout
-    truth = json.loads((tmp_path / "ramp.truth.json").read_text())
+    assert f"wrote {out}" in stdout and "shelf.truth.json" in stdout
+    truth = json.loads((tmp_path / "shelf.truth.json").read_text())
     assert truth["snr"] == 3.0 and truth["wavelet"]["peak_hz"] == 25.0
     assert truth["velocity"] == {"model": "constant", "v_m_s": 2200.0}
     with segyio.open(out, ignore_geometry=True) as f:
