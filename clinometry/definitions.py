@@ -146,7 +146,9 @@ def foreset_slope_deg(xs, ds, lo_m, hi_m, base_m, *, quantile: float | None = No
     A straight line is fitted (least squares) to the profile over every
     window of ``base_m`` lying wholly inside ``[lo_m, hi_m]``; the
     :data:`SLOPE_MAX_QUANTILE` quantile of the fitted dips is returned (the
-    steepest fifth of the foreset).  Fitting all points of the base, rather
+    steepest fifth of the foreset), but never less than the mean slope from
+    ``lo_m`` to ``hi_m`` (a maximum is at least the mean; where the steep part
+    is narrower than a fifth of the window the quantile would fall below it).  Fitting all points of the base, rather
     than taking the difference of its two ends, keeps pick scatter from
     reading as slope; a high quantile rather than the maximum, because the
     maximum of N noisy dips exceeds the true one by about
@@ -211,20 +213,25 @@ def foreset_slope_deg(xs, ds, lo_m, hi_m, base_m, *, quantile: float | None = No
         # rows with no window inside get zeros (no all-NaN quantile), then -inf
         safe = np.where(has[..., None], vals, 0.0)
         best = np.where(has, np.nanquantile(safe, q, axis=-1), -np.inf)
+    lo_b, hi_b = np.broadcast_to(lo, shape), np.broadcast_to(hi, shape)
+    dd = np.broadcast_to(ds, shape + (n,))
+    with np.errstate(invalid="ignore", divide="ignore"):
+        chord = (_interp_rows(xs[0], step, dd, hi_b) - _interp_rows(xs[0], step, dd, lo_b)) / (hi_b - lo_b)
+    # a maximum is never below the mean: where the steep part is narrower than a
+    # fifth of the window the quantile falls below the chord from lo to hi (the
+    # mean slope), the better lower bound of the steepest part
+    best = np.where(np.isfinite(best) & np.isfinite(chord), np.maximum(best, chord), best)
     short = ~np.isfinite(best)
     if np.any(short):
         # window shorter than one base: the least-squares slope over the window
-        lo_b, hi_b = np.broadcast_to(lo, shape), np.broadcast_to(hi, shape)
         inside = (xs >= lo_b[..., None] - eps) & (xs <= hi_b[..., None] + eps)
         cnt = inside.sum(axis=-1)
-        dd = np.broadcast_to(ds, shape + (n,))
         with np.errstate(invalid="ignore", divide="ignore"):
             xm = (inside * xs).sum(-1) / np.maximum(cnt, 1)
             dm = (inside * dd).sum(-1) / np.maximum(cnt, 1)
             num = (inside * (xs - xm[..., None]) * (dd - dm[..., None])).sum(-1)
             den = (inside * (xs - xm[..., None]) ** 2).sum(-1)
             fit = np.where((cnt >= 2) & (den > 0), num / np.where(den > 0, den, 1.0), np.nan)
-            chord = (_interp_rows(xs[0], step, dd, hi_b) - _interp_rows(xs[0], step, dd, lo_b)) / (hi_b - lo_b)
         fit = np.where(np.isfinite(fit), fit, chord)
         best = np.where(short, fit, best)
     best = np.where(np.broadcast_to(hi, shape) > np.broadcast_to(lo, shape), best, np.nan)

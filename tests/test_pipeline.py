@@ -211,6 +211,10 @@ def test_bundled_line_contract_margins_and_directions(name):
     assert sorted(m["direction"] for m in d["margins"]) == sorted(m["direction"] for m in truth["margins"])
     for m in d["margins"]:
         (t,) = [t for t in truth["margins"] if t["direction"] == m["direction"]]
+        if t["break"] is None:
+            # a ramp has no shelf break (common practice, no source): none may be picked either
+            assert m["break"] is None and m["family"] == t["family"] == "ramp"
+            continue
         # break within a few hundred metres of the truth (pick tolerance: common practice, no source)
         assert abs(m["break"]["distance_m"] - t["break"]["distance_m"]) <= 300.0
 
@@ -239,12 +243,18 @@ def _got_vs_truth(name, key):
 # none at present (every bundled line's family matches its truth).
 _FAMILY_XFAIL = {}
 # (direction, got class, got angle, got flat band, truth class, truth angle) of known
-# mismatches; none at present.  Older clinoforms are followed through the dip field beneath
+# mismatches, measured 2026-12-04 (issue 12 open): the older clinoforms' breaks are
+# followed onto other reflectors on these two lines.  Older clinoforms are followed through the dip field beneath
 # the outer profile (picking/clinoforms.py) and the trajectory is a Theil-Sen line through
 # their breaks (Theil 1950, Sen 1968, from memory); the truth uses the same estimator
 # (synth/truth.py), so deep_factory_shelf, whose true breaks step back landward early on and
 # then rise, is "ascending" on both sides (a least-squares truth called it descending).
-_TRAJECTORY_XFAIL = {}
+_TRAJECTORY_XFAIL = {
+    # the P10-P90 range -2.8 to 5.6 deg spans the band: unresolved, not wrong, but not the class
+    "deep_factory_shelf": "('+', 'unresolved', 1.42, 4.2, 'ascending', 9.63)",
+    # wrong: older breaks picked on reflectors 1.3 km landward of the true ones
+    "falling_shelf": "('+', 'flat_or_ascending', 1.42, 2.0, 'descending', -3.63)",
+}
 
 
 def _params(xfails):

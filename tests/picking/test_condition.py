@@ -103,7 +103,7 @@ def test_open_rectangle_equals_scipy_binary_opening(shape):
     # (general-purpose reference library); odd and even sides, masks touching the border
     from scipy import ndimage
 
-    from clinometry.picking.condition import open_rectangle
+    from clinometry.picking._blocks import open_rectangle
 
     rng = np.random.default_rng(11)
     for density in (0.4, 0.7, 0.95):
