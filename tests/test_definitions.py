@@ -18,7 +18,7 @@ import pytest
 from clinometry import definitions
 
 PKG = Path(definitions.__file__).resolve().parent
-SHARED_NAMES = ("SLOPE_BASE_MIN_M", "BASE_LENGTH_TRACES", "SLOPE_PRECISION_FRACTION", "SLOPE_QUANTUM_DEG",
+SHARED_NAMES = ("BASE_LENGTH_TRACES", "SLOPE_MAX_QUANTILE", "SLOPE_PRECISION_FRACTION", "SLOPE_QUANTUM_DEG",
                 "TRAJECTORY_FLAT_DEG")
 
 
@@ -30,7 +30,8 @@ def test_metrics_and_truth_use_the_shared_objects():
     assert truth.slope_base_length_m is definitions.slope_base_length_m
     assert trajectory.theil_sen_line is definitions.theil_sen_line
     assert truth.theil_sen_line is definitions.theil_sen_line
-    assert truth.BASE_LENGTH_M is definitions.SLOPE_BASE_MIN_M
+    assert slope.foreset_slope_deg is definitions.foreset_slope_deg
+    assert truth.foreset_slope_deg is definitions.foreset_slope_deg
     assert truth.TRAJECTORY_FLAT_DEG is trajectory.TRAJECTORY_FLAT_DEG is definitions.TRAJECTORY_FLAT_DEG
 
 
@@ -71,24 +72,36 @@ def test_no_other_module_defines_them_again(path):
     assert "theilslopes" not in imported, f"{path.relative_to(PKG)} fits its own Theil-Sen line"
 
 
+def _precision_base(dsample_m, spacing_m, gradient):
+    # the base over which a least-squares line through points one trace apart, each with the
+    # quantisation error of one depth sample (sigma = dz / sqrt(12), uniform error, from
+    # memory), has a slope error of a tenth of the mean gradient: sigma sqrt(12 / N) / L with
+    # N = L / dx (Press et al. 2007, Numerical Recipes 15.2, from memory), so
+    # L = (dz sqrt(dx) / (0.1 g)) ** (2/3); the 10 % is a project choice (common practice, no source)
+    return (dsample_m * np.sqrt(spacing_m) / (0.1 * gradient)) ** (2.0 / 3.0)
+
+
 @pytest.mark.parametrize("spacing_m,dsample_m,slope_deg,expected_m", [
-    (12.5, 2.5, 20.0, 150.0),                                      # the 150 m floor
-    (12.5, 2.5, 0.8, 2.5 / (0.1 * np.tan(np.radians(0.8)))),        # 1790.4 m, the precision term
-    (50.0, 1.0, 10.0, 200.0),                                      # four trace spacings
+    (12.5, 2.5, 20.0, _precision_base(2.5, 12.5, np.tan(np.radians(20.0)))),  # 38.9 m, just above 3 traces
+    (12.5, 2.5, 0.8, _precision_base(2.5, 12.5, np.tan(np.radians(0.8)))),    # 342.2 m, the precision term
+    (50.0, 1.0, 10.0, 3 * 50.0),                                              # three trace spacings
 ])
 def test_slope_base_worked_examples(spacing_m, dsample_m, slope_deg, expected_m):
-    # L = max(150 m, 4 traces, dz / (0.1 tan(mean slope))) (worked by hand; the 150 m, 4 traces
-    # and 10 % are project choices, common practice, no source)
+    # L = max(3 traces, precision base) (worked by hand; three points are the fewest that fix a
+    # line and show its misfit, common practice, no source)
     got = definitions.slope_base_length_m(spacing_m, dsample_m, np.tan(np.radians(slope_deg)))
     assert got == pytest.approx(expected_m)
 
 
 def test_slope_base_without_mean_slope_or_depth_sample():
-    # no mean gradient: one depth sample over the base is a 1 deg slope, 4 / tan(1 deg) = 229.2 m
-    # (trigonometry); no depth sample: only the floor and the trace term
-    assert definitions.slope_base_length_m(25.0, 4.0, None) == pytest.approx(4.0 / np.tan(np.radians(1.0)))
-    assert definitions.slope_base_length_m(25.0, None, 0.01) == 150.0
-    assert definitions.slope_base_length_m(25.0, None, None, min_base_m=500.0) == 500.0
+    # no mean gradient: the precision base is taken for a 1 deg slope (the quantum slopes are
+    # reported in, chosen here); no depth sample and no measured scatter: only the trace term
+    assert definitions.slope_base_length_m(25.0, 4.0, None) == pytest.approx(
+        _precision_base(4.0, 25.0, np.tan(np.radians(1.0))))
+    assert definitions.slope_base_length_m(25.0, None, 0.01) == 75.0
+    # a measured pick scatter larger than the quantisation takes its place
+    assert definitions.slope_base_length_m(25.0, None, 0.01, pick_scatter_m=2.0) == pytest.approx(
+        _precision_base(2.0 * np.sqrt(12.0), 25.0, 0.01))
 
 
 def test_theil_sen_line_matches_scipy_and_a_hand_example():

@@ -132,7 +132,7 @@ def default_thresholds() -> dict:
     Examples
     --------
     >>> default_thresholds()["ramp_max_slope_deg"]
-    1.0
+    2.0
     """
     return {k: float(t.value) for k, t in DEFAULT_THRESHOLDS.items()}
 

@@ -41,7 +41,7 @@ from .bodies import Layers, Margin, Mounds, Ramp
 from .conditions import apply_conditions, check_dead_traces, describe_conditions, noise_wavelet
 from .fill import ToeSubsidence, lay_fill
 from .growth import FACIES
-from .lines import TRUTH_SCHEMA_VERSION, _point, clinoform_rows, line_geometry, margin_record, truth_definitions
+from .records import TRUTH_SCHEMA_VERSION, _point, clinoform_rows, line_geometry, margin_record, truth_definitions
 from .seismic import SynthVelocity, bandlimited_noise, render
 from .truth import profile_margin
 
@@ -55,10 +55,11 @@ logger = logging.getLogger(__name__)
 #: Ginsburg 1981; from memory) -- the value of the classifier's
 #: ``steep_min_slope_deg``
 STEEP_MIN_SLOPE_DEG = 30.0
-#: steepest slope of a ramp, degrees (Read 1985, AAPG Bull. 69: 1-21;
-#: Burchette & Wright 1992; from memory) -- the classifier's
-#: ``ramp_max_slope_deg``; a distally steepened ramp may exceed it
-RAMP_MAX_SLOPE_DEG = 1.0
+#: steepest slope of a ramp, degrees: twice the "generally < 1 deg" of Read
+#: 1985, AAPG Bull. 69: 1-21 and Burchette & Wright 1992 (from memory; the
+#: factor is our choice) -- the classifier's ``ramp_max_slope_deg``; a
+#: distally steepened ramp may exceed it
+RAMP_MAX_SLOPE_DEG = 2.0
 _NOISE_KINDS = ("white", "bandlimited")
 
 

@@ -156,7 +156,7 @@ _LIST = (
         "margin_concave", "margin facing '-' with a concave 20 deg foreset (wide toe) and a falling break: "
         "descending trajectory", "rimmed_shelf", "descending",
         Setting(6000.0, 12.5, Margin("-", 3200.0, 260.0, 500.0, Foreset(20.0, break_width_m=50.0, toe_width_m=700.0),
-                                     n_clinoforms=24, progradation_m=1200.0, aggradation_m=-25.0))),
+                                     n_clinoforms=24, progradation_m=1200.0, aggradation_m=-80.0))),
     # 19 steps of 25 m: every break at the same place between traces of 12.5 or 25 m,
     # so the breaks on the trace grid lie level (a flat trajectory in the truth)
     AnalyticScenario(

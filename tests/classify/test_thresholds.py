@@ -15,8 +15,9 @@ def test_every_threshold_names_its_source():
 
 def test_default_values_from_their_sources():
     t = default_thresholds()
-    # Read (1985, AAPG Bull. 69: 1-21); Burchette & Wright (1992): ramps dip < ~1 deg (from memory)
-    assert t["ramp_max_slope_deg"] == 1.0
+    # Read (1985, AAPG Bull. 69: 1-21); Burchette & Wright (1992): ramps dip < ~1 deg (from
+    # memory); the bound is twice that, so that slope uncertainty keeps a ramp a ramp (chosen here)
+    assert t["ramp_max_slope_deg"] == 2.0
     # Kenter (1990, Sedimentology 37: 777-794): loose grain slopes stop near the
     # angle of repose, ~30 deg; mud-dominated flanks below ~15 deg; grain-dominated to ~35 deg (from memory)
     assert t["steep_min_slope_deg"] == 30.0

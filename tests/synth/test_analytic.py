@@ -60,7 +60,9 @@ def test_single_mound_has_two_flanks_facing_away_at_their_design_slope():
         assert sign * (x["toe"]["trace"] - x["break"]["trace"]) > 0
         assert x["trajectory"]["class"] == "ascending"  # older stages lower and narrower
     asym = LINES["mound_asymmetric"][1]["margins"]
-    assert [(x["family"], round(x["slope_max_deg"])) for x in asym] == [("steep_margin", 54), ("rimmed_shelf", 22)]
+    # designed 55 and 22 deg flanks (settings table); planar, so the fitted dips are the design dips
+    assert [x["family"] for x in asym] == ["steep_margin", "rimmed_shelf"]
+    np.testing.assert_allclose([x["slope_max_deg"] for x in asym], [55.0, 22.0], atol=1.0)
 
 
 @pytest.mark.parametrize("name", ["mound_pair_wide", "mound_pair_narrow", "mound_pair_drape"])
@@ -113,7 +115,7 @@ def test_surfaces_never_cross_and_families_follow_the_slope_bounds(name):
             assert m["slope_max_deg"] < 1.5  # ramps: gentle, ~1 deg or less (Read 1985, from memory)
         else:
             # family bound 30 deg (Kenter 1990; Schlager & Ginsburg 1981, from memory), kept >= 4 deg away
-            assert abs(m["slope_max_deg"] - STEEP_MIN_SLOPE_DEG) >= 4.0
+            assert abs(m["slope_max_deg"] - STEEP_MIN_SLOPE_DEG) >= 4.0 - 1e-6
             assert m["family"] == ("steep_margin" if m["slope_max_deg"] > STEEP_MIN_SLOPE_DEG else "rimmed_shelf")
         if sc.family not in (None, "mixed"):
             assert m["family"] == sc.family
