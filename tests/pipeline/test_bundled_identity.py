@@ -10,7 +10,9 @@ code changes no number.
 
 Keys that were added later are dropped before hashing (:data:`NEW_KEYS`),
 and so are the few values whose meaning changed on purpose
-(:data:`CHANGED_ON_PURPOSE`); everything else must match byte for byte.
+(:data:`CHANGED_ON_PURPOSE`).  The source path is written relative to the
+checkout, since it names where the checkout lives, not what was computed.
+Everything else must match byte for byte.
 
 When the numbers are meant to change (a new picker, a changed metric),
 regenerate the digests and say why in the commit::
@@ -63,6 +65,9 @@ def _normalised_json(text):
         d.get(block, {}).pop(key, None)
     for block, key, _ in CHANGED_ON_PURPOSE:
         d.get(block, {}).pop(key, None)
+    src = d.get("source", {})
+    if "path" in src:
+        src["path"] = Path(src["path"]).resolve().relative_to(ROOT).as_posix()
     return json.dumps(d, indent=2)
 
 
