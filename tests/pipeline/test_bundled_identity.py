@@ -66,7 +66,7 @@ def _normalised_json(text):
     for block, key, _ in CHANGED_ON_PURPOSE:
         d.get(block, {}).pop(key, None)
     src = d.get("source", {})
-    if "path" in src:
+    if src.get("path") and Path(src["path"]).resolve().is_relative_to(ROOT):
         src["path"] = Path(src["path"]).resolve().relative_to(ROOT).as_posix()
     return json.dumps(d, indent=2)
 
