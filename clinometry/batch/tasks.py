@@ -23,6 +23,7 @@ horizons CSV and (when plots are on) the QC PNG exist.
 from __future__ import annotations
 
 import glob
+import hashlib
 import json
 import logging
 import os
@@ -43,6 +44,7 @@ __all__ = [
     "run_task",
     "is_complete",
     "output_names",
+    "unique_stems",
 ]
 
 logger = logging.getLogger(__name__)
@@ -235,18 +237,17 @@ def plan_tasks(paths, *, inlines=None, crosslines=None):
 
     Notes
     -----
-    Output stems are the sanitised file stem, plus ``_ilN`` / ``_xlN`` for
-    lines of a volume (as ``clinometry analyze`` names them); a stem used twice (same file
-    name in two folders) gets ``_2``, ``_3``, ... in task order.
+    Output stems come from :func:`unique_stems`: the sanitised file stem,
+    plus ``_ilN`` / ``_xlN`` for lines of a volume; files whose names clash
+    are named by their relative path instead.
     """
     files, problems = expand_paths(paths)
     il = parse_line_spec(inlines)
     xl = parse_line_spec(crosslines)
     if il is None and xl is None:
         il = "all"
-    tasks, used = [], {}
+    planned = []
     for f in files:
-        base = safe_name(Path(f).stem)
         try:
             selections = []
             for direction, sel in (("inline", il), ("crossline", xl)):
@@ -265,14 +266,75 @@ def plan_tasks(paths, *, inlines=None, crosslines=None):
         except (ClinometryError, OSError, RuntimeError, ValueError) as err:
             problems.append(_problem(f, "", type(err).__name__, _message(err, f)))
             continue
-        for direction, n in selections:
-            stem = base if direction is None else f"{base}_{_SHORT[direction]}{n}"
-            k = used.get(stem, 0) + 1
-            used[stem] = k
-            if k > 1:
-                stem = f"{stem}_{k}"
-            tasks.append(Task(path=f, direction=direction, line=n, stem=stem))
+        planned.extend((f, direction, n) for direction, n in selections)
+    stems = unique_stems(planned)
+    tasks = [Task(path=f, direction=d, line=n, stem=s) for (f, d, n), s in zip(planned, stems)]
     return tasks, problems
+
+
+def _line_stem(base, direction, line):
+    return base if direction is None else f"{base}_{_SHORT[direction]}{line}"
+
+
+def _path_hash(path, direction, line) -> str:
+    """8 hex digits of SHA-1 over the absolute path and line: the same task always gets the same ones."""
+    text = f"{os.path.abspath(path)}\0{direction or ''}\0{'' if line is None else line}"
+    return hashlib.sha1(text.encode("utf-8", "surrogateescape")).hexdigest()[:8]
+
+
+def unique_stems(planned) -> list:
+    """Output stems for ``(path, direction, line)`` triples: unique, and the same for the same inputs.
+
+    Parameters
+    ----------
+    planned : sequence of (str, str or None, int or None)
+        Absolute file path, direction and line number of each task.
+
+    Returns
+    -------
+    list of str
+        One stem per entry, each made by
+        :func:`~clinometry.report.atomic.safe_name` and unique without
+        regard to case (a case-insensitive file system would merge ``A``
+        and ``a``).
+
+    Notes
+    -----
+    A file's stem is its sanitised file name without the ending, plus
+    ``_ilN`` / ``_xlN`` for a line of a volume (as ``clinometry analyze``
+    names it).  Files whose stems clash (the same name in two folders, or
+    names that sanitise alike) are named by their path relative to the
+    folder they share instead (``a/x.sgy`` -> ``a_x``); a stem that still
+    clashes gets ``_`` and 8 hex digits of a SHA-1 hash of its absolute
+    path and line.  The stems depend only on the set of inputs, never on
+    the order or on an earlier run, so ``--resume`` finds the same files.
+
+    Examples
+    --------
+    >>> unique_stems([("/d/a/x.sgy", None, None), ("/d/b/x.sgy", None, None), ("/d/b/x_2.sgy", None, None)])
+    ['a_x', 'b_x', 'x_2']
+    """
+    planned = [(os.path.abspath(f), d, n) for f, d, n in planned]
+    bases = {f: safe_name(Path(f).stem) for f, _, _ in planned}
+    by_base = {}
+    for f in dict.fromkeys(f for f, _, _ in planned):
+        by_base.setdefault(bases[f].casefold(), []).append(f)
+    for group in by_base.values():
+        if len(group) > 1:
+            root = os.path.commonpath([os.path.dirname(f) for f in group])
+            for f in group:
+                rel = os.path.splitext(os.path.relpath(f, root))[0]
+                bases[f] = safe_name(rel.replace(os.sep, "_"))
+    stems = [_line_stem(bases[f], d, n) for f, d, n in planned]
+    counts = {}
+    for s in stems:
+        counts[s.casefold()] = counts.get(s.casefold(), 0) + 1
+    out = []
+    for s, (f, d, n) in zip(stems, planned):
+        if counts[s.casefold()] > 1:
+            s = f"{s[:110]}_{_path_hash(f, d, n)}"
+        out.append(s)
+    return out
 
 
 def _spec_text(sel):

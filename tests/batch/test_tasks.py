@@ -5,8 +5,9 @@ from pathlib import Path
 
 import pytest
 
-from clinometry.batch.tasks import Task, expand_paths, parse_line_spec, plan_tasks
+from clinometry.batch.tasks import Task, expand_paths, parse_line_spec, plan_tasks, unique_stems
 from clinometry.errors import GeometryError
+from clinometry.report.atomic import safe_name
 
 DATA = Path(__file__).resolve().parents[1] / "data" / "segy-reference"
 
@@ -68,7 +69,31 @@ def test_plan_tasks_2d_lines_with_the_same_name_in_two_folders_get_distinct_stem
         (tmp_path / d / "1xN.sgy").write_bytes((DATA / "1xN.sgy").read_bytes())
     tasks, problems = plan_tasks([tmp_path / "x", tmp_path / "y" / "1xN.sgy", tmp_path / "x" / "1xN.sgy"])
     assert problems == []
-    assert [(t.direction, t.line, t.stem) for t in tasks] == [(None, None, "1xN"), (None, None, "1xN_2")]
+    # the clashing names are named by their path relative to the folder they share
+    assert [(t.direction, t.line, t.stem) for t in tasks] == [(None, None, "x_1xN"), (None, None, "y_1xN")]
+
+
+def test_plan_tasks_stem_collision_with_a_numbered_name_gives_unique_stable_stems(tmp_path):
+    # issue 15 item 1: a/x.sgy, b/x.sgy and b/x_2.sgy once gave two inputs the stem x_2
+    for sub, name in (("a", "x.sgy"), ("b", "x.sgy"), ("b", "x_2.sgy")):
+        (tmp_path / sub).mkdir(exist_ok=True)
+        (tmp_path / sub / name).write_bytes((DATA / "1xN.sgy").read_bytes())
+    tasks, _ = plan_tasks([tmp_path / "a", tmp_path / "b"])
+    stems = {os.path.relpath(t.path, tmp_path): t.stem for t in tasks}
+    assert stems == {"a/x.sgy": "a_x", "b/x.sgy": "b_x", "b/x_2.sgy": "x_2"}
+    again, _ = plan_tasks([tmp_path / "b", tmp_path / "a"])  # the order of the arguments changes nothing
+    assert {os.path.relpath(t.path, tmp_path): t.stem for t in again} == stems
+
+
+def test_unique_stems_stay_unique_when_the_relative_names_clash_too(tmp_path):
+    # "a b/x", "a_b/x" and "a_b_x" all sanitise to a_b_x; case-insensitive file systems merge X and x
+    planned = [("/d/a b/x.sgy", None, None), ("/d/a_b/x.sgy", None, None), ("/d/a_b_x.sgy", None, None),
+               ("/d/X.sgy", None, None), ("/e/x.sgy", None, None), ("/d/v.sgy", "inline", 5),
+               ("/d/v_il5.sgy", None, None)]
+    stems = unique_stems(planned)
+    assert len({s.casefold() for s in stems}) == len(stems)
+    assert stems == unique_stems(list(reversed(planned)))[::-1]  # the same stem whatever the order
+    assert all(s == safe_name(s) for s in stems)
 
 
 def test_plan_tasks_unreadable_file_is_a_problem_row(corrupt_file):

@@ -107,3 +107,21 @@ def test_batch_killed_part_way_then_resumed_has_no_lost_or_duplicated_rows(lines
     assert len(keys) == len(set(keys))  # no row duplicated
     assert sorted(keys) == sorted((s, m["direction"]) for s, d in docs.items() for m in d["margins"])
     assert _rows(out / "errors.csv") == []
+
+
+def test_batch_margins_csv_names_the_full_input_path_of_same_named_lines(lines, tmp_path, capsys):
+    # issue 15 item 1: the same file name in two folders; each row says which input it came from
+    import shutil
+
+    for sub in ("a", "b"):
+        (tmp_path / sub).mkdir()
+        shutil.copy(lines / "gentle_ramp.sgy", tmp_path / sub / "line.sgy")
+    code = main(["batch", str(tmp_path / "a"), str(tmp_path / "b"), "--out", str(tmp_path / "o"), "--workers", "1",
+                 "--no-plot", "--quiet", "--velocity", "2500"])
+    assert code == 0, capsys.readouterr().err
+    rows = _rows(tmp_path / "o" / "margins.csv")
+    assert rows, "the ramp line has a margin"
+    by_stem = {}
+    for r in rows:
+        by_stem.setdefault(r["stem"], set()).add(r["file"])
+    assert by_stem == {"a_line": {str(tmp_path / "a" / "line.sgy")}, "b_line": {str(tmp_path / "b" / "line.sgy")}}
