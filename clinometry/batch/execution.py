@@ -411,6 +411,7 @@ def run_batch(
         analysis=analysis,
         plot=bool(plot),
         file_velocity={os.path.abspath(k): dict(v) for k, v in (file_velocity or {}).items()},
+        protect=tuple(sorted({t.path for t in tasks})),
     )
     todo, skipped = [], 0
     for t in tasks:

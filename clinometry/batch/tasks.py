@@ -51,6 +51,11 @@ logger = logging.getLogger(__name__)
 
 _SHORT = {"inline": "il", "crossline": "xl"}
 
+#: stems of the files a batch writes for the whole run (margins.csv, summary.png, index.html, ...): a line
+#: whose stem is one of them gets ``_line`` added, so its files never clash with the batch's
+BATCH_STEMS = frozenset({"margins", "margins_reviewed", "margins_projected", "errors", "summary", "map", "index",
+                         "review", ".clinometry"})
+
 
 @dataclass(frozen=True)
 class Task:
@@ -105,6 +110,7 @@ class TaskOptions:
     analysis: AnalysisOptions = field(default_factory=AnalysisOptions)
     plot: bool = True
     file_velocity: dict = field(default_factory=dict)
+    protect: tuple = ()
 
     def analysis_for(self, path) -> AnalysisOptions:
         """The analysis options of one file: the run's, with that file's own velocity if it has one."""
@@ -306,7 +312,9 @@ def unique_stems(planned) -> list:
     names that sanitise alike) are named by their path relative to the
     folder they share instead (``a/x.sgy`` -> ``a_x``); a stem that still
     clashes gets ``_`` and 8 hex digits of a SHA-1 hash of its absolute
-    path and line.  The stems depend only on the set of inputs, never on
+    path and line.  A stem equal to one of the batch's own files
+    (:data:`BATCH_STEMS`, ``summary``, ``map``, ``index``, ...) gets
+    ``_line`` added.  The stems depend only on the set of inputs, never on
     the order or on an earlier run, so ``--resume`` finds the same files.
 
     Examples
@@ -326,6 +334,7 @@ def unique_stems(planned) -> list:
                 rel = os.path.splitext(os.path.relpath(f, root))[0]
                 bases[f] = safe_name(rel.replace(os.sep, "_"))
     stems = [_line_stem(bases[f], d, n) for f, d, n in planned]
+    stems = [f"{s}_line" if s.casefold() in BATCH_STEMS else s for s in stems]
     counts = {}
     for s in stems:
         counts[s.casefold()] = counts.get(s.casefold(), 0) + 1
@@ -411,13 +420,24 @@ def is_complete(task, out_dir, *, plot=True, options=None) -> bool:
     return True
 
 
-def _remove_outputs(task, out_dir):
-    """Remove a failed line's files, so no stale or partial result is taken for it."""
+def _remove_outputs(task, out_dir, protect=()):
+    """Remove a failed line's files, so no stale or partial result is taken for it (never an input file)."""
+    keep = [task.path, *protect]
     for name in output_names(task.stem, plot=True).values():
+        target = os.path.join(out_dir, name)
+        if any(_same_file(target, k) for k in keep):
+            continue
         try:
-            os.unlink(os.path.join(out_dir, name))
+            os.unlink(target)
         except FileNotFoundError:
             pass
+
+
+def _same_file(a, b) -> bool:
+    try:
+        return os.path.samefile(a, b)
+    except (OSError, ValueError):
+        return False
 
 
 def run_task(task, options) -> dict:
@@ -451,10 +471,11 @@ def run_task(task, options) -> dict:
     try:
         analysis = run_analysis(task.path, options.analysis_for(task.path), **line)
         result = analysis.result
-        write_line_files(result, options.out_dir, stem=task.stem, plot=options.plot, section=analysis.section)
+        write_line_files(result, options.out_dir, stem=task.stem, plot=options.plot, section=analysis.section,
+                         protect=options.protect)
     except Exception as err:  # fault tolerance: one bad line must not stop the batch
         logger.info("%s %s: %s: %s", os.path.basename(task.path), task.label, type(err).__name__, err)
-        _remove_outputs(task, options.out_dir)
+        _remove_outputs(task, options.out_dir, options.protect)
         rec["error_type"] = type(err).__name__
         rec["message"] = _message(err, task.path)
         return rec

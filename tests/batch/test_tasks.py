@@ -102,3 +102,9 @@ def test_plan_tasks_unreadable_file_is_a_problem_row(corrupt_file):
     assert problems[0]["file"] == str(corrupt_file)
     assert problems[0]["error_type"] == "SegyReadError"
     assert "corrupt.sgy" in problems[0]["message"]
+
+
+def test_a_line_named_like_a_batch_file_gets_a_stem_of_its_own():
+    # issue 15 item 4: a line named summary, map or index once had its QC PNG replaced by the batch's figure
+    planned = [(f"/d/{n}.sgy", None, None) for n in ("summary", "Map", "index", "margins", "errors", "line")]
+    assert unique_stems(planned) == ["summary_line", "Map_line", "index_line", "margins_line", "errors_line", "line"]

@@ -192,3 +192,22 @@ def test_horizons_picker_needs_a_horizon_file_and_another_picker_refuses_one(syn
     assert code == 2
     assert "is read by the 'horizons' picker, but picker 'default' was chosen" in err
     assert not list(tmp_path.iterdir())
+
+
+def test_analyze_never_replaces_its_input_with_an_output(tmp_path, capsys):
+    # issue 15 item 4: a SEG-Y named line.png analysed into its own folder once overwrote itself;
+    # segyio's 1xN.sgy (one inline, read as a 2D line; tests/data/README.md)
+    import warnings
+    from pathlib import Path
+
+    data = Path(__file__).resolve().parents[1] / "data" / "segy-reference" / "1xN.sgy"
+    src = tmp_path / "line.png"
+    src.write_bytes(data.read_bytes())
+    with warnings.catch_warnings():
+        warnings.simplefilter("ignore")  # the trace-spacing fallback of 1xN.sgy
+        code = main(["analyze", str(src), "--out", str(tmp_path), "--velocity", "2500"])
+    err = capsys.readouterr().err
+    assert code == 2
+    assert err.strip() == (f"clinometry: error: {src}: this output would replace the input file {src}; "
+                           "write the results to another folder (--out) or rename the input")
+    assert src.read_bytes() == data.read_bytes()
