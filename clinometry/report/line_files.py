@@ -11,9 +11,10 @@ from __future__ import annotations
 
 import logging
 import os
+import warnings
 from pathlib import Path
 
-from ..errors import ClinometryError
+from ..errors import ClinometryError, FigureWarning
 from .atomic import atomic_write, safe_name
 from .tables import HORIZON_COLUMNS, horizon_rows, write_csv
 
@@ -90,6 +91,13 @@ def write_line_files(result, out_dir, *, stem, plot=True, section=None, protect=
     ClinometryError
         When an output would replace an input file (nothing is written).
 
+    Warns
+    -----
+    FigureWarning
+        When the QC figure cannot be drawn: the JSON and the horizons CSV
+        are kept, ``paths["plot"]`` is None and ``paths["plot_error"]``
+        says why.
+
     Notes
     -----
     The horizons table has the columns
@@ -114,6 +122,14 @@ def write_line_files(result, out_dir, *, stem, plot=True, section=None, protect=
             logger.info("%s: QC plot skipped (clinometry.report.figures.qc_figure not available: %s)", stem, err)
         else:
             target = out / f"{stem}.png"
-            qc_figure(result, section, target)
-            paths["plot"] = target
+            try:
+                qc_figure(result, section, target)
+            except Exception as err:  # a figure is a view of results already written: never lose them for it
+                msg = " ".join(str(err).split()) or type(err).__name__
+                warnings.warn(f"{stem}: the QC figure could not be drawn ({type(err).__name__}: {msg}); the "
+                              "results JSON and horizons CSV are kept; rerun with --no-plot or report it",
+                              FigureWarning, stacklevel=2)
+                paths["plot_error"] = f"{type(err).__name__}: {msg}"
+            else:
+                paths["plot"] = target
     return paths
