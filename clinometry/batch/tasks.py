@@ -22,6 +22,7 @@ horizons CSV and (when plots are on) the QC PNG exist.
 
 from __future__ import annotations
 
+import errno
 import glob
 import hashlib
 import json
@@ -45,6 +46,7 @@ __all__ = [
     "is_complete",
     "output_names",
     "unique_stems",
+    "not_a_file_reason",
 ]
 
 logger = logging.getLogger(__name__)
@@ -177,28 +179,36 @@ def expand_paths(paths):
     files : list of str
         Absolute paths, sorted, without duplicates.
     problems : list of dict
-        One errors-table row per argument that named nothing
+        One errors-table row per argument that named nothing, and per
+        SEG-Y-named entry that is no file: a dangling symbolic link, a loop
+        of links, a folder (see :func:`not_a_file_reason`)
         (``file, line, error_type, message``).
     """
     files, problems = [], []
+
+    def take(candidates):
+        for f in candidates:
+            why = not_a_file_reason(f)
+            if why:
+                problems.append(_problem(f, "", why[0], f"{f}: {why[1]}"))
+            else:
+                files.append(f)
+
     for p in paths:
         p = os.fspath(p)
         if os.path.isdir(p):
-            found = sorted(
-                os.path.join(p, n) for n in os.listdir(p)
-                if has_segy_suffix(n) and os.path.isfile(os.path.join(p, n))
-            )
+            found = sorted(os.path.join(p, n) for n in os.listdir(p) if has_segy_suffix(n))
             if not found:
                 problems.append(_problem(p, "", "FileNotFoundError",
                                          f"{p}: folder holds no {' or '.join(SEGY_SUFFIXES)} file"))
-            files.extend(found)
-        elif os.path.exists(p):
-            files.append(p)
+            take(found)
+        elif os.path.lexists(p):
+            take([p])
         elif glob.has_magic(p):
-            found = sorted(f for f in glob.glob(p) if os.path.isfile(f))
+            found = sorted(glob.glob(p))
             if not found:
                 problems.append(_problem(p, "", "FileNotFoundError", f"{p}: pattern matches no file"))
-            files.extend(found)
+            take(found)
         else:
             problems.append(_problem(p, "", "FileNotFoundError", f"{p}: no such file or folder"))
     seen, out = set(), []
@@ -208,6 +218,43 @@ def expand_paths(paths):
             seen.add(a)
             out.append(a)
     return sorted(out), problems
+
+
+def not_a_file_reason(path):
+    """Why ``path`` cannot be read as a SEG-Y file, as ``(error type, reason)``; None when it is a file.
+
+    Parameters
+    ----------
+    path : str
+
+    Returns
+    -------
+    tuple of str or None
+        A dangling symbolic link, a loop of symbolic links, a folder (named
+        like a SEG-Y file) or anything else that is not a regular file.
+
+    Examples
+    --------
+    >>> import tempfile, os
+    >>> d = tempfile.mkdtemp(); os.symlink(os.path.join(d, "gone.sgy"), os.path.join(d, "a.sgy"))
+    >>> not_a_file_reason(os.path.join(d, "a.sgy"))
+    ('FileNotFoundError', 'symbolic link to a missing file; restore the file or remove the link')
+    """
+    try:
+        os.stat(path)
+    except FileNotFoundError:
+        if os.path.islink(path):
+            return ("FileNotFoundError", "symbolic link to a missing file; restore the file or remove the link")
+        return ("FileNotFoundError", "no such file")
+    except OSError as err:
+        if err.errno == errno.ELOOP:
+            return ("OSError", "symbolic links form a loop; point the link at a real file")
+        return (type(err).__name__, f"cannot be read ({err.strerror or err}); check its permissions")
+    if os.path.isdir(path):
+        return ("IsADirectoryError", "is a folder, not a SEG-Y file; give the files inside it, or rename the folder")
+    if not os.path.isfile(path):
+        return ("OSError", "is not a regular file (a device, pipe or socket); copy the data to a file")
+    return None
 
 
 def _problem(file, line, error_type, message):

@@ -108,3 +108,24 @@ def test_a_line_named_like_a_batch_file_gets_a_stem_of_its_own():
     # issue 15 item 4: a line named summary, map or index once had its QC PNG replaced by the batch's figure
     planned = [(f"/d/{n}.sgy", None, None) for n in ("summary", "Map", "index", "margins", "errors", "line")]
     assert unique_stems(planned) == ["summary_line", "Map_line", "index_line", "margins_line", "errors_line", "line"]
+
+
+def test_dangling_links_link_loops_and_folders_named_sgy_are_error_rows(tmp_path):
+    # issue 15 item 11: these were skipped without a word (POSIX symlink semantics: ELOOP for a loop)
+    (tmp_path / "good.sgy").write_bytes((DATA / "1xN.sgy").read_bytes())
+    os.symlink(tmp_path / "gone.sgy", tmp_path / "dangling.sgy")
+    os.symlink(tmp_path / "loop_b.sgy", tmp_path / "loop_a.sgy")
+    os.symlink(tmp_path / "loop_a.sgy", tmp_path / "loop_b.sgy")
+    (tmp_path / "folder.sgy").mkdir()
+    files, problems = expand_paths([tmp_path])
+    assert [os.path.basename(f) for f in files] == ["good.sgy"]
+    assert {os.path.basename(p["file"]): (p["error_type"], p["message"].split(": ", 1)[1]) for p in problems} == {
+        "dangling.sgy": ("FileNotFoundError", "symbolic link to a missing file; restore the file or remove the link"),
+        "loop_a.sgy": ("OSError", "symbolic links form a loop; point the link at a real file"),
+        "loop_b.sgy": ("OSError", "symbolic links form a loop; point the link at a real file"),
+        "folder.sgy": ("IsADirectoryError", "is a folder, not a SEG-Y file; give the files inside it, or rename the "
+                                            "folder"),
+    }
+    # the same when named on the command line or by a pattern
+    files, problems = expand_paths([tmp_path / "dangling.sgy", str(tmp_path / "loop_*.sgy")])
+    assert files == [] and [p["error_type"] for p in problems] == ["FileNotFoundError", "OSError", "OSError"]

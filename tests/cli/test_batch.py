@@ -125,3 +125,18 @@ def test_batch_margins_csv_names_the_full_input_path_of_same_named_lines(lines, 
     for r in rows:
         by_stem.setdefault(r["stem"], set()).add(r["file"])
     assert by_stem == {"a_line": {str(tmp_path / "a" / "line.sgy")}, "b_line": {str(tmp_path / "b" / "line.sgy")}}
+
+
+def test_batch_dangling_link_is_an_errors_row_and_exit_1(lines, tmp_path, capsys):
+    # issue 15 item 11: a dangling symbolic link among good lines was skipped without a word
+    import shutil
+
+    (tmp_path / "in").mkdir()
+    shutil.copy(lines / "gentle_ramp.sgy", tmp_path / "in" / "ramp.sgy")
+    os.symlink(tmp_path / "gone.sgy", tmp_path / "in" / "dangling.sgy")
+    code = main(["batch", str(tmp_path / "in"), "--out", str(tmp_path / "o"), "--workers", "1", "--no-plot",
+                 "--quiet", "--velocity", "2500"])
+    assert code == 1
+    capsys.readouterr()
+    assert [(r["file"], r["error_type"]) for r in _rows(tmp_path / "o" / "errors.csv")] == [
+        (str(tmp_path / "in" / "dangling.sgy"), "FileNotFoundError")]
