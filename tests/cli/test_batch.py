@@ -140,3 +140,30 @@ def test_batch_dangling_link_is_an_errors_row_and_exit_1(lines, tmp_path, capsys
     capsys.readouterr()
     assert [(r["file"], r["error_type"]) for r in _rows(tmp_path / "o" / "errors.csv")] == [
         (str(tmp_path / "in" / "dangling.sgy"), "FileNotFoundError")]
+
+
+@pytest.mark.parametrize("address", ["http://127.0.0.1:8787", "not a host:::", "tcp://", "tcp://host:99999"])
+def test_batch_bad_scheduler_address_is_one_line_error_exit_2(lines, tmp_path, capsys, address):
+    # issue 15 item 14: a malformed address was reported as an internal error with a traceback
+    import time
+
+    t0 = time.monotonic()
+    code = main(["batch", str(lines / "gentle_ramp.sgy"), "--out", str(tmp_path / "o"), "--scheduler", address,
+                 "--quiet", "--no-plot"])
+    err = capsys.readouterr().err
+    assert code == 2
+    assert err.count("\n") == 1 and err.startswith(f"clinometry: error: --scheduler {address.strip()}: ")
+    assert "internal error" not in err and "Traceback" not in err
+    assert time.monotonic() - t0 < 10  # refused before any connection attempt
+
+
+def test_thresholds_file_that_is_not_utf8_is_one_line_error_exit_2(lines, tmp_path, capsys):
+    # issue 15 item 14: TOML is UTF-8 (TOML v1.0.0 specification); Latin-1 "é" is byte 0xE9
+    bad = tmp_path / "t.toml"
+    bad.write_bytes("# caf\u00e9\n[thresholds]\n".encode("latin-1"))
+    code = main(["batch", str(lines / "gentle_ramp.sgy"), "--out", str(tmp_path / "o"), "--thresholds", str(bad),
+                 "--quiet", "--no-plot", "--workers", "1"])
+    err = capsys.readouterr().err
+    assert code == 2
+    assert err == (f"clinometry: error: {bad}: not UTF-8 text (byte 5: invalid continuation byte); "
+                   "TOML files are UTF-8: save it as UTF-8\n")
