@@ -28,6 +28,7 @@ __all__ = [
     "ClinometryWarning",
     "DataQualityWarning",
     "FallbackWarning",
+    "FigureWarning",
 ]
 
 
@@ -77,3 +78,7 @@ class DataQualityWarning(ClinometryWarning):
 
 class FallbackWarning(ClinometryWarning):
     """A default or fallback value was used because the file did not say."""
+
+
+class FigureWarning(ClinometryWarning):
+    """A figure could not be drawn; the results it would show are kept."""

@@ -47,7 +47,7 @@ from ..report.review import load_decisions, review_outputs
 from ..report.tables import margin_rows, write_errors_csv, write_margins_csv, write_margins_parquet
 from .tasks import TaskOptions, is_complete, output_names, plan_tasks, run_task
 
-__all__ = ["BatchSummary", "run_batch", "collect_tables"]
+__all__ = ["BatchSummary", "run_batch", "collect_tables", "check_scheduler_address", "SCHEDULER_SCHEMES"]
 
 logger = logging.getLogger(__name__)
 
@@ -231,6 +231,50 @@ def _drain_local(tasks, options, pool, ready):
             local.join()
 
 
+#: address schemes a dask.distributed scheduler listens on (distributed.comm registry, from memory)
+SCHEDULER_SCHEMES = ("tcp", "tls", "ws", "wss", "ucx")
+
+
+def check_scheduler_address(address) -> str:
+    """Check a ``--scheduler`` address before connecting: ``SCHEME://HOST:PORT`` or ``HOST:PORT``.
+
+    Parameters
+    ----------
+    address : str
+
+    Returns
+    -------
+    str
+        The address as given (stripped).
+
+    Raises
+    ------
+    ClinometryError
+        A scheme other than :data:`SCHEDULER_SCHEMES` (``http://`` is a web
+        dashboard, not the scheduler), no host, or no port from 1 to 65535.
+
+    Examples
+    --------
+    >>> check_scheduler_address("tcp://10.0.0.5:8786")
+    'tcp://10.0.0.5:8786'
+    >>> check_scheduler_address("http://10.0.0.5:8787")
+    Traceback (most recent call last):
+    ...
+    clinometry.errors.ClinometryError: --scheduler http://10.0.0.5:8787: scheme 'http' is not a Dask scheduler's ...
+    """
+    text = str(address or "").strip()
+    hint = "give the scheduler's address as tcp://HOST:PORT (the dashboard's http:// address is not it)"
+    scheme, sep, rest = text.rpartition("://") if "://" in text else ("tcp", "", text)
+    if scheme not in SCHEDULER_SCHEMES:
+        raise ClinometryError(f"--scheduler {text}: scheme {scheme!r} is not a Dask scheduler's "
+                              f"({', '.join(SCHEDULER_SCHEMES)}); {hint}")
+    host, colon, port = rest.rpartition(":")
+    host = host[1:-1] if host.startswith("[") and host.endswith("]") else host
+    if not colon or not host or any(c in host for c in " /@") or not port.isdigit() or not 0 < int(port) < 65536:
+        raise ClinometryError(f"--scheduler {text}: expected HOST:PORT with a port from 1 to 65535; {hint}")
+    return text
+
+
 def _iter_dask(tasks, options, scheduler):
     try:
         from distributed import Client, as_completed as dask_completed
@@ -240,7 +284,7 @@ def _iter_dask(tasks, options, scheduler):
         ) from err
     try:
         client = Client(scheduler, timeout="20s", set_as_default=False)
-    except OSError as err:
+    except (OSError, ValueError, TypeError) as err:
         raise ClinometryError(f"cannot reach the Dask scheduler at {scheduler}: {err}; check the address") from err
     try:
         futures = client.map(run_task, tasks, options=options, pure=False)
@@ -400,6 +444,8 @@ def run_batch(
     for own in (file_velocity or {}).values():  # a file's own velocity is refused before any line runs too
         check_velocity(replace(analysis, **{"velocity": None, "velocity_linear": None, "velocity_file": None,
                                             **dict(own)}))
+    if scheduler is not None:
+        scheduler = check_scheduler_address(scheduler)  # a bad address stops the run before any work
     out = Path(out_dir)
     out.mkdir(parents=True, exist_ok=True)
     decisions = load_decisions(out, review)
@@ -411,6 +457,7 @@ def run_batch(
         analysis=analysis,
         plot=bool(plot),
         file_velocity={os.path.abspath(k): dict(v) for k, v in (file_velocity or {}).items()},
+        protect=tuple(sorted({t.path for t in tasks})),
     )
     todo, skipped = [], 0
     for t in tasks:

@@ -22,7 +22,9 @@ horizons CSV and (when plots are on) the QC PNG exist.
 
 from __future__ import annotations
 
+import errno
 import glob
+import hashlib
 import json
 import logging
 import os
@@ -43,11 +45,18 @@ __all__ = [
     "run_task",
     "is_complete",
     "output_names",
+    "unique_stems",
+    "not_a_file_reason",
 ]
 
 logger = logging.getLogger(__name__)
 
 _SHORT = {"inline": "il", "crossline": "xl"}
+
+#: stems of the files a batch writes for the whole run (margins.csv, summary.png, index.html, ...): a line
+#: whose stem is one of them gets ``_line`` added, so its files never clash with the batch's
+BATCH_STEMS = frozenset({"margins", "margins_reviewed", "margins_projected", "errors", "summary", "map", "index",
+                         "review", ".clinometry"})
 
 
 @dataclass(frozen=True)
@@ -103,6 +112,7 @@ class TaskOptions:
     analysis: AnalysisOptions = field(default_factory=AnalysisOptions)
     plot: bool = True
     file_velocity: dict = field(default_factory=dict)
+    protect: tuple = ()
 
     def analysis_for(self, path) -> AnalysisOptions:
         """The analysis options of one file: the run's, with that file's own velocity if it has one."""
@@ -169,28 +179,36 @@ def expand_paths(paths):
     files : list of str
         Absolute paths, sorted, without duplicates.
     problems : list of dict
-        One errors-table row per argument that named nothing
+        One errors-table row per argument that named nothing, and per
+        SEG-Y-named entry that is no file: a dangling symbolic link, a loop
+        of links, a folder (see :func:`not_a_file_reason`)
         (``file, line, error_type, message``).
     """
     files, problems = [], []
+
+    def take(candidates):
+        for f in candidates:
+            why = not_a_file_reason(f)
+            if why:
+                problems.append(_problem(f, "", why[0], f"{f}: {why[1]}"))
+            else:
+                files.append(f)
+
     for p in paths:
         p = os.fspath(p)
         if os.path.isdir(p):
-            found = sorted(
-                os.path.join(p, n) for n in os.listdir(p)
-                if has_segy_suffix(n) and os.path.isfile(os.path.join(p, n))
-            )
+            found = sorted(os.path.join(p, n) for n in os.listdir(p) if has_segy_suffix(n))
             if not found:
                 problems.append(_problem(p, "", "FileNotFoundError",
                                          f"{p}: folder holds no {' or '.join(SEGY_SUFFIXES)} file"))
-            files.extend(found)
-        elif os.path.exists(p):
-            files.append(p)
+            take(found)
+        elif os.path.lexists(p):
+            take([p])
         elif glob.has_magic(p):
-            found = sorted(f for f in glob.glob(p) if os.path.isfile(f))
+            found = sorted(glob.glob(p))
             if not found:
                 problems.append(_problem(p, "", "FileNotFoundError", f"{p}: pattern matches no file"))
-            files.extend(found)
+            take(found)
         else:
             problems.append(_problem(p, "", "FileNotFoundError", f"{p}: no such file or folder"))
     seen, out = set(), []
@@ -200,6 +218,43 @@ def expand_paths(paths):
             seen.add(a)
             out.append(a)
     return sorted(out), problems
+
+
+def not_a_file_reason(path):
+    """Why ``path`` cannot be read as a SEG-Y file, as ``(error type, reason)``; None when it is a file.
+
+    Parameters
+    ----------
+    path : str
+
+    Returns
+    -------
+    tuple of str or None
+        A dangling symbolic link, a loop of symbolic links, a folder (named
+        like a SEG-Y file) or anything else that is not a regular file.
+
+    Examples
+    --------
+    >>> import tempfile, os
+    >>> d = tempfile.mkdtemp(); os.symlink(os.path.join(d, "gone.sgy"), os.path.join(d, "a.sgy"))
+    >>> not_a_file_reason(os.path.join(d, "a.sgy"))
+    ('FileNotFoundError', 'symbolic link to a missing file; restore the file or remove the link')
+    """
+    try:
+        os.stat(path)
+    except FileNotFoundError:
+        if os.path.islink(path):
+            return ("FileNotFoundError", "symbolic link to a missing file; restore the file or remove the link")
+        return ("FileNotFoundError", "no such file")
+    except OSError as err:
+        if err.errno == errno.ELOOP:
+            return ("OSError", "symbolic links form a loop; point the link at a real file")
+        return (type(err).__name__, f"cannot be read ({err.strerror or err}); check its permissions")
+    if os.path.isdir(path):
+        return ("IsADirectoryError", "is a folder, not a SEG-Y file; give the files inside it, or rename the folder")
+    if not os.path.isfile(path):
+        return ("OSError", "is not a regular file (a device, pipe or socket); copy the data to a file")
+    return None
 
 
 def _problem(file, line, error_type, message):
@@ -235,18 +290,17 @@ def plan_tasks(paths, *, inlines=None, crosslines=None):
 
     Notes
     -----
-    Output stems are the sanitised file stem, plus ``_ilN`` / ``_xlN`` for
-    lines of a volume (as ``clinometry analyze`` names them); a stem used twice (same file
-    name in two folders) gets ``_2``, ``_3``, ... in task order.
+    Output stems come from :func:`unique_stems`: the sanitised file stem,
+    plus ``_ilN`` / ``_xlN`` for lines of a volume; files whose names clash
+    are named by their relative path instead.
     """
     files, problems = expand_paths(paths)
     il = parse_line_spec(inlines)
     xl = parse_line_spec(crosslines)
     if il is None and xl is None:
         il = "all"
-    tasks, used = [], {}
+    planned = []
     for f in files:
-        base = safe_name(Path(f).stem)
         try:
             selections = []
             for direction, sel in (("inline", il), ("crossline", xl)):
@@ -265,14 +319,78 @@ def plan_tasks(paths, *, inlines=None, crosslines=None):
         except (ClinometryError, OSError, RuntimeError, ValueError) as err:
             problems.append(_problem(f, "", type(err).__name__, _message(err, f)))
             continue
-        for direction, n in selections:
-            stem = base if direction is None else f"{base}_{_SHORT[direction]}{n}"
-            k = used.get(stem, 0) + 1
-            used[stem] = k
-            if k > 1:
-                stem = f"{stem}_{k}"
-            tasks.append(Task(path=f, direction=direction, line=n, stem=stem))
+        planned.extend((f, direction, n) for direction, n in selections)
+    stems = unique_stems(planned)
+    tasks = [Task(path=f, direction=d, line=n, stem=s) for (f, d, n), s in zip(planned, stems)]
     return tasks, problems
+
+
+def _line_stem(base, direction, line):
+    return base if direction is None else f"{base}_{_SHORT[direction]}{line}"
+
+
+def _path_hash(path, direction, line) -> str:
+    """8 hex digits of SHA-1 over the absolute path and line: the same task always gets the same ones."""
+    text = f"{os.path.abspath(path)}\0{direction or ''}\0{'' if line is None else line}"
+    return hashlib.sha1(text.encode("utf-8", "surrogateescape")).hexdigest()[:8]
+
+
+def unique_stems(planned) -> list:
+    """Output stems for ``(path, direction, line)`` triples: unique, and the same for the same inputs.
+
+    Parameters
+    ----------
+    planned : sequence of (str, str or None, int or None)
+        Absolute file path, direction and line number of each task.
+
+    Returns
+    -------
+    list of str
+        One stem per entry, each made by
+        :func:`~clinometry.report.atomic.safe_name` and unique without
+        regard to case (a case-insensitive file system would merge ``A``
+        and ``a``).
+
+    Notes
+    -----
+    A file's stem is its sanitised file name without the ending, plus
+    ``_ilN`` / ``_xlN`` for a line of a volume (as ``clinometry analyze``
+    names it).  Files whose stems clash (the same name in two folders, or
+    names that sanitise alike) are named by their path relative to the
+    folder they share instead (``a/x.sgy`` -> ``a_x``); a stem that still
+    clashes gets ``_`` and 8 hex digits of a SHA-1 hash of its absolute
+    path and line.  A stem equal to one of the batch's own files
+    (:data:`BATCH_STEMS`, ``summary``, ``map``, ``index``, ...) gets
+    ``_line`` added.  The stems depend only on the set of inputs, never on
+    the order or on an earlier run, so ``--resume`` finds the same files.
+
+    Examples
+    --------
+    >>> unique_stems([("/d/a/x.sgy", None, None), ("/d/b/x.sgy", None, None), ("/d/b/x_2.sgy", None, None)])
+    ['a_x', 'b_x', 'x_2']
+    """
+    planned = [(os.path.abspath(f), d, n) for f, d, n in planned]
+    bases = {f: safe_name(Path(f).stem) for f, _, _ in planned}
+    by_base = {}
+    for f in dict.fromkeys(f for f, _, _ in planned):
+        by_base.setdefault(bases[f].casefold(), []).append(f)
+    for group in by_base.values():
+        if len(group) > 1:
+            root = os.path.commonpath([os.path.dirname(f) for f in group])
+            for f in group:
+                rel = os.path.splitext(os.path.relpath(f, root))[0]
+                bases[f] = safe_name(rel.replace(os.sep, "_"))
+    stems = [_line_stem(bases[f], d, n) for f, d, n in planned]
+    stems = [f"{s}_line" if s.casefold() in BATCH_STEMS else s for s in stems]
+    counts = {}
+    for s in stems:
+        counts[s.casefold()] = counts.get(s.casefold(), 0) + 1
+    out = []
+    for s, (f, d, n) in zip(stems, planned):
+        if counts[s.casefold()] > 1:
+            s = f"{s[:110]}_{_path_hash(f, d, n)}"
+        out.append(s)
+    return out
 
 
 def _spec_text(sel):
@@ -349,13 +467,24 @@ def is_complete(task, out_dir, *, plot=True, options=None) -> bool:
     return True
 
 
-def _remove_outputs(task, out_dir):
-    """Remove a failed line's files, so no stale or partial result is taken for it."""
+def _remove_outputs(task, out_dir, protect=()):
+    """Remove a failed line's files, so no stale or partial result is taken for it (never an input file)."""
+    keep = [task.path, *protect]
     for name in output_names(task.stem, plot=True).values():
+        target = os.path.join(out_dir, name)
+        if any(_same_file(target, k) for k in keep):
+            continue
         try:
-            os.unlink(os.path.join(out_dir, name))
+            os.unlink(target)
         except FileNotFoundError:
             pass
+
+
+def _same_file(a, b) -> bool:
+    try:
+        return os.path.samefile(a, b)
+    except (OSError, ValueError):
+        return False
 
 
 def run_task(task, options) -> dict:
@@ -389,10 +518,11 @@ def run_task(task, options) -> dict:
     try:
         analysis = run_analysis(task.path, options.analysis_for(task.path), **line)
         result = analysis.result
-        write_line_files(result, options.out_dir, stem=task.stem, plot=options.plot, section=analysis.section)
+        write_line_files(result, options.out_dir, stem=task.stem, plot=options.plot, section=analysis.section,
+                         protect=options.protect)
     except Exception as err:  # fault tolerance: one bad line must not stop the batch
         logger.info("%s %s: %s: %s", os.path.basename(task.path), task.label, type(err).__name__, err)
-        _remove_outputs(task, options.out_dir)
+        _remove_outputs(task, options.out_dir, options.protect)
         rec["error_type"] = type(err).__name__
         rec["message"] = _message(err, task.path)
         return rec

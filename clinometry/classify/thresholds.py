@@ -220,6 +220,9 @@ def load_thresholds(path) -> dict:
             data = tomllib.load(fh)
         except tomllib.TOMLDecodeError as err:
             raise ThresholdsError(f"{name}: not valid TOML: {err}") from err
+        except UnicodeDecodeError as err:  # TOML is UTF-8 (TOML v1.0.0 specification)
+            raise ThresholdsError(f"{name}: not UTF-8 text (byte {err.start}: {err.reason}); TOML files are "
+                                  "UTF-8: save it as UTF-8") from err
     if "thresholds" in data:
         extra = [k for k in data if k != "thresholds"]
         if extra:

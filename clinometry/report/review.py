@@ -30,7 +30,7 @@ from pathlib import Path
 
 from ..errors import ReviewFileError
 from .atomic import atomic_write
-from .tables import MARGIN_COLUMNS, csv_text, rounded_rows
+from .tables import FORMULA_START, MARGIN_COLUMNS, csv_text, rounded_rows
 
 __all__ = [
     "DECISIONS",
@@ -78,7 +78,7 @@ DEPTH_TOLERANCE_M = 1.0
 
 _PICK_COLUMNS = ("break_trace", "break_depth_m", "toe_trace", "toe_depth_m")
 #: a leading apostrophe that a spreadsheet-safe export put before these characters is taken off again
-_FORMULA_START = ("=", "+", "-", "@", "\t", "\r")
+_FORMULA_START = FORMULA_START
 
 
 def margin_key(file, line, direction) -> tuple:

@@ -32,6 +32,8 @@ __all__ = [
     "margin_value",
     "margin_percentile",
     "horizon_rows",
+    "FORMULA_START",
+    "neutralise_formula",
     "csv_text",
     "write_csv",
     "write_margins_csv",
@@ -271,16 +273,58 @@ def horizon_rows(result, section) -> list:
     return rows
 
 
+#: first characters that make a spreadsheet read a cell as a formula (OWASP, "CSV Injection", from memory):
+#: such a text cell is written with a leading apostrophe, which spreadsheets show as text
+FORMULA_START = ("=", "+", "-", "@", "\t", "\r")
+
+
+def neutralise_formula(text: str) -> str:
+    """A text cell as a spreadsheet will not run it: a leading ``'`` before ``= + - @``, tab or CR.
+
+    Parameters
+    ----------
+    text : str
+        A text cell (numbers are not passed here: ``-12.5`` stays a number).
+
+    Returns
+    -------
+    str
+        ``text`` with ``'`` in front when it starts with one of
+        :data:`FORMULA_START`; a lone ``+`` or ``-`` (the basin side of a
+        margin) holds no formula and is kept as it is (common practice, no
+        source).
+
+    Notes
+    -----
+    This is the leading-quote rule for CSV formula injection (OWASP, "CSV
+    Injection", from memory).  :mod:`clinometry.report.review` takes the
+    apostrophe off again when it reads a table back.
+
+    Examples
+    --------
+    >>> neutralise_formula("=HYPERLINK(1)"), neutralise_formula("line_07.sgy"), neutralise_formula("-")
+    ("'=HYPERLINK(1)", 'line_07.sgy', '-')
+    """
+    if text and text[0] in FORMULA_START and text not in ("+", "-"):
+        return "'" + text
+    return text
+
+
 def _cell(v):
     if v is None:
         return ""
     if isinstance(v, float):
         return repr(v)
+    if isinstance(v, str):
+        return neutralise_formula(v)
     return str(v)
 
 
 def csv_text(rows, columns) -> str:
     """Rows (dicts) as CSV text with a header; ``None`` becomes an empty cell.
+
+    Text cells go through :func:`neutralise_formula`, so no cell taken from a
+    file name, a header or a message runs as a spreadsheet formula.
 
     Examples
     --------
@@ -312,8 +356,10 @@ def _column_cells(values):
     kinds = set(map(type, values))
     if kinds <= {float}:
         return list(map(float.__repr__, values))
-    if kinds <= {int, str}:
+    if kinds <= {int}:
         return list(map(str, values))
+    if kinds <= {str}:
+        return list(map(neutralise_formula, values))
     return [_cell(v) for v in values]
 
 

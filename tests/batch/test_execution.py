@@ -192,3 +192,35 @@ def test_worker_processes_start_before_the_caller_makes_threads(good_lines, tmp_
     summary = run_batch([good_lines], tmp_path / "out", workers=2, plot=False, quiet=True, velocity=2500.0)
     assert summary.exit_code == 0
     assert seen == [1]
+
+
+def test_batch_same_names_in_two_folders_keep_each_line_its_own_row(tmp_path):
+    # issue 15 item 1: two inputs once shared a stem and one result overwrote the other;
+    # three copies of segyio's 1xN.sgy (one inline, read as a 2D line; tests/data/README.md)
+    data = os.path.join(os.path.dirname(__file__), "..", "data", "segy-reference", "1xN.sgy")
+    for sub, name in (("a", "x.sgy"), ("b", "x.sgy"), ("b", "x_2.sgy")):
+        (tmp_path / sub).mkdir(exist_ok=True)
+        shutil.copy(data, tmp_path / sub / name)
+    out = tmp_path / "out"
+    with pytest.warns(Warning):  # 1xN.sgy has no trace coordinates: the spacing fallback warns
+        summary = run_batch([tmp_path / "a", tmp_path / "b"], out, workers=1, plot=False, quiet=True,
+                            velocity=2500.0)
+    assert summary.n_ok == 3
+    docs = _jsons(out)
+    assert sorted(docs) == ["a_x.json", "b_x.json", "x_2.json"]
+    # each JSON holds the result of its own input
+    assert {n: os.path.relpath(d["source"]["path"], tmp_path) for n, d in docs.items()} == {
+        "a_x.json": "a/x.sgy", "b_x.json": "b/x.sgy", "x_2.json": "b/x_2.sgy"}
+
+
+def test_batch_never_replaces_an_input_with_an_output(tmp_path):
+    # issue 15 item 4: a SEG-Y named line.png in the output folder (segyio's 1xN.sgy, tests/data/README.md)
+    data = os.path.join(os.path.dirname(__file__), "..", "data", "segy-reference", "1xN.sgy")
+    src = tmp_path / "line.png"
+    shutil.copy(data, src)
+    with pytest.warns(Warning):  # the trace-spacing fallback of 1xN.sgy
+        summary = run_batch([src], tmp_path, workers=1, plot=True, quiet=True, velocity=2500.0)
+    with open(data, "rb") as fh:
+        assert src.read_bytes() == fh.read()  # the input is untouched
+    assert summary.n_failed == 1
+    assert "would replace the input file" in summary.errors[0]["message"]

@@ -5,8 +5,9 @@ from pathlib import Path
 
 import pytest
 
-from clinometry.batch.tasks import Task, expand_paths, parse_line_spec, plan_tasks
+from clinometry.batch.tasks import Task, expand_paths, parse_line_spec, plan_tasks, unique_stems
 from clinometry.errors import GeometryError
+from clinometry.report.atomic import safe_name
 
 DATA = Path(__file__).resolve().parents[1] / "data" / "segy-reference"
 
@@ -68,7 +69,31 @@ def test_plan_tasks_2d_lines_with_the_same_name_in_two_folders_get_distinct_stem
         (tmp_path / d / "1xN.sgy").write_bytes((DATA / "1xN.sgy").read_bytes())
     tasks, problems = plan_tasks([tmp_path / "x", tmp_path / "y" / "1xN.sgy", tmp_path / "x" / "1xN.sgy"])
     assert problems == []
-    assert [(t.direction, t.line, t.stem) for t in tasks] == [(None, None, "1xN"), (None, None, "1xN_2")]
+    # the clashing names are named by their path relative to the folder they share
+    assert [(t.direction, t.line, t.stem) for t in tasks] == [(None, None, "x_1xN"), (None, None, "y_1xN")]
+
+
+def test_plan_tasks_stem_collision_with_a_numbered_name_gives_unique_stable_stems(tmp_path):
+    # issue 15 item 1: a/x.sgy, b/x.sgy and b/x_2.sgy once gave two inputs the stem x_2
+    for sub, name in (("a", "x.sgy"), ("b", "x.sgy"), ("b", "x_2.sgy")):
+        (tmp_path / sub).mkdir(exist_ok=True)
+        (tmp_path / sub / name).write_bytes((DATA / "1xN.sgy").read_bytes())
+    tasks, _ = plan_tasks([tmp_path / "a", tmp_path / "b"])
+    stems = {os.path.relpath(t.path, tmp_path): t.stem for t in tasks}
+    assert stems == {"a/x.sgy": "a_x", "b/x.sgy": "b_x", "b/x_2.sgy": "x_2"}
+    again, _ = plan_tasks([tmp_path / "b", tmp_path / "a"])  # the order of the arguments changes nothing
+    assert {os.path.relpath(t.path, tmp_path): t.stem for t in again} == stems
+
+
+def test_unique_stems_stay_unique_when_the_relative_names_clash_too(tmp_path):
+    # "a b/x", "a_b/x" and "a_b_x" all sanitise to a_b_x; case-insensitive file systems merge X and x
+    planned = [("/d/a b/x.sgy", None, None), ("/d/a_b/x.sgy", None, None), ("/d/a_b_x.sgy", None, None),
+               ("/d/X.sgy", None, None), ("/e/x.sgy", None, None), ("/d/v.sgy", "inline", 5),
+               ("/d/v_il5.sgy", None, None)]
+    stems = unique_stems(planned)
+    assert len({s.casefold() for s in stems}) == len(stems)
+    assert stems == unique_stems(list(reversed(planned)))[::-1]  # the same stem whatever the order
+    assert all(s == safe_name(s) for s in stems)
 
 
 def test_plan_tasks_unreadable_file_is_a_problem_row(corrupt_file):
@@ -77,3 +102,30 @@ def test_plan_tasks_unreadable_file_is_a_problem_row(corrupt_file):
     assert problems[0]["file"] == str(corrupt_file)
     assert problems[0]["error_type"] == "SegyReadError"
     assert "corrupt.sgy" in problems[0]["message"]
+
+
+def test_a_line_named_like_a_batch_file_gets_a_stem_of_its_own():
+    # issue 15 item 4: a line named summary, map or index once had its QC PNG replaced by the batch's figure
+    planned = [(f"/d/{n}.sgy", None, None) for n in ("summary", "Map", "index", "margins", "errors", "line")]
+    assert unique_stems(planned) == ["summary_line", "Map_line", "index_line", "margins_line", "errors_line", "line"]
+
+
+def test_dangling_links_link_loops_and_folders_named_sgy_are_error_rows(tmp_path):
+    # issue 15 item 11: these were skipped without a word (POSIX symlink semantics: ELOOP for a loop)
+    (tmp_path / "good.sgy").write_bytes((DATA / "1xN.sgy").read_bytes())
+    os.symlink(tmp_path / "gone.sgy", tmp_path / "dangling.sgy")
+    os.symlink(tmp_path / "loop_b.sgy", tmp_path / "loop_a.sgy")
+    os.symlink(tmp_path / "loop_a.sgy", tmp_path / "loop_b.sgy")
+    (tmp_path / "folder.sgy").mkdir()
+    files, problems = expand_paths([tmp_path])
+    assert [os.path.basename(f) for f in files] == ["good.sgy"]
+    assert {os.path.basename(p["file"]): (p["error_type"], p["message"].split(": ", 1)[1]) for p in problems} == {
+        "dangling.sgy": ("FileNotFoundError", "symbolic link to a missing file; restore the file or remove the link"),
+        "loop_a.sgy": ("OSError", "symbolic links form a loop; point the link at a real file"),
+        "loop_b.sgy": ("OSError", "symbolic links form a loop; point the link at a real file"),
+        "folder.sgy": ("IsADirectoryError", "is a folder, not a SEG-Y file; give the files inside it, or rename the "
+                                            "folder"),
+    }
+    # the same when named on the command line or by a pattern
+    files, problems = expand_paths([tmp_path / "dangling.sgy", str(tmp_path / "loop_*.sgy")])
+    assert files == [] and [p["error_type"] for p in problems] == ["FileNotFoundError", "OSError", "OSError"]

@@ -192,3 +192,63 @@ def test_horizons_picker_needs_a_horizon_file_and_another_picker_refuses_one(syn
     assert code == 2
     assert "is read by the 'horizons' picker, but picker 'default' was chosen" in err
     assert not list(tmp_path.iterdir())
+
+
+def test_analyze_never_replaces_its_input_with_an_output(tmp_path, capsys):
+    # issue 15 item 4: a SEG-Y named line.png analysed into its own folder once overwrote itself;
+    # segyio's 1xN.sgy (one inline, read as a 2D line; tests/data/README.md)
+    import warnings
+    from pathlib import Path
+
+    data = Path(__file__).resolve().parents[1] / "data" / "segy-reference" / "1xN.sgy"
+    src = tmp_path / "line.png"
+    src.write_bytes(data.read_bytes())
+    with warnings.catch_warnings():
+        warnings.simplefilter("ignore")  # the trace-spacing fallback of 1xN.sgy
+        code = main(["analyze", str(src), "--out", str(tmp_path), "--velocity", "2500"])
+    err = capsys.readouterr().err
+    assert code == 2
+    assert err.strip() == (f"clinometry: error: {src}: this output would replace the input file {src}; "
+                           "write the results to another folder (--out) or rename the input")
+    assert src.read_bytes() == data.read_bytes()
+
+
+def test_analyze_file_name_with_dollar_signs_draws_the_qc_figure(tmp_path, capsys):
+    # issue 15 item 5: "$a^{$" is unbalanced math text; plot text is literal, so the figure is drawn
+    # (segyio's 1xN.sgy, tests/data/README.md; PNG signature from the PNG specification, ISO/IEC 15948)
+    import warnings
+
+    data = Path(__file__).resolve().parents[1] / "data" / "segy-reference" / "1xN.sgy"
+    src = tmp_path / "in" / "l$a^{$.sgy"
+    src.parent.mkdir()
+    src.write_bytes(data.read_bytes())
+    with warnings.catch_warnings():
+        warnings.simplefilter("ignore", UserWarning)  # the trace-spacing fallback of 1xN.sgy
+        warnings.simplefilter("error", __import__("clinometry.errors").errors.FigureWarning)
+        code = main(["analyze", str(src), "--out", str(tmp_path / "o"), "--velocity", "2500"])
+    assert code == 0, capsys.readouterr().err
+    png = [p for p in (tmp_path / "o").iterdir() if p.suffix == ".png"]
+    assert len(png) == 1 and png[0].read_bytes()[:8] == b"\x89PNG\r\n\x1a\n"
+
+
+def test_a_figure_that_fails_is_a_warning_and_the_results_are_kept(tmp_path, monkeypatch):
+    # issue 15 item 5: a failed figure once removed the line's computed results
+    import warnings
+
+    from clinometry.errors import FigureWarning
+    from clinometry.report import figures
+
+    def broken(*args, **kwargs):
+        raise ValueError("figure drawing failed on purpose")
+
+    monkeypatch.setattr(figures, "qc_figure", broken)
+    data = Path(__file__).resolve().parents[1] / "data" / "segy-reference" / "1xN.sgy"
+    with warnings.catch_warnings():
+        warnings.simplefilter("ignore", UserWarning)
+        warnings.simplefilter("always", FigureWarning)
+        with pytest.warns(FigureWarning, match="on purpose.*results JSON and horizons CSV are kept"):
+            code = main(["analyze", str(data), "--out", str(tmp_path), "--velocity", "2500"])
+    assert code == 0
+    doc = json.loads((tmp_path / "1xN.json").read_text())
+    assert doc["source"]["path"].endswith("1xN.sgy")
+    assert (tmp_path / "1xN.horizons.csv").is_file() and not (tmp_path / "1xN.png").exists()

@@ -107,3 +107,63 @@ def test_batch_killed_part_way_then_resumed_has_no_lost_or_duplicated_rows(lines
     assert len(keys) == len(set(keys))  # no row duplicated
     assert sorted(keys) == sorted((s, m["direction"]) for s, d in docs.items() for m in d["margins"])
     assert _rows(out / "errors.csv") == []
+
+
+def test_batch_margins_csv_names_the_full_input_path_of_same_named_lines(lines, tmp_path, capsys):
+    # issue 15 item 1: the same file name in two folders; each row says which input it came from
+    import shutil
+
+    for sub in ("a", "b"):
+        (tmp_path / sub).mkdir()
+        shutil.copy(lines / "gentle_ramp.sgy", tmp_path / sub / "line.sgy")
+    code = main(["batch", str(tmp_path / "a"), str(tmp_path / "b"), "--out", str(tmp_path / "o"), "--workers", "1",
+                 "--no-plot", "--quiet", "--velocity", "2500"])
+    assert code == 0, capsys.readouterr().err
+    rows = _rows(tmp_path / "o" / "margins.csv")
+    assert rows, "the ramp line has a margin"
+    by_stem = {}
+    for r in rows:
+        by_stem.setdefault(r["stem"], set()).add(r["file"])
+    assert by_stem == {"a_line": {str(tmp_path / "a" / "line.sgy")}, "b_line": {str(tmp_path / "b" / "line.sgy")}}
+
+
+def test_batch_dangling_link_is_an_errors_row_and_exit_1(lines, tmp_path, capsys):
+    # issue 15 item 11: a dangling symbolic link among good lines was skipped without a word
+    import shutil
+
+    (tmp_path / "in").mkdir()
+    shutil.copy(lines / "gentle_ramp.sgy", tmp_path / "in" / "ramp.sgy")
+    os.symlink(tmp_path / "gone.sgy", tmp_path / "in" / "dangling.sgy")
+    code = main(["batch", str(tmp_path / "in"), "--out", str(tmp_path / "o"), "--workers", "1", "--no-plot",
+                 "--quiet", "--velocity", "2500"])
+    assert code == 1
+    capsys.readouterr()
+    assert [(r["file"], r["error_type"]) for r in _rows(tmp_path / "o" / "errors.csv")] == [
+        (str(tmp_path / "in" / "dangling.sgy"), "FileNotFoundError")]
+
+
+@pytest.mark.parametrize("address", ["http://127.0.0.1:8787", "not a host:::", "tcp://", "tcp://host:99999"])
+def test_batch_bad_scheduler_address_is_one_line_error_exit_2(lines, tmp_path, capsys, address):
+    # issue 15 item 14: a malformed address was reported as an internal error with a traceback
+    import time
+
+    t0 = time.monotonic()
+    code = main(["batch", str(lines / "gentle_ramp.sgy"), "--out", str(tmp_path / "o"), "--scheduler", address,
+                 "--quiet", "--no-plot"])
+    err = capsys.readouterr().err
+    assert code == 2
+    assert err.count("\n") == 1 and err.startswith(f"clinometry: error: --scheduler {address.strip()}: ")
+    assert "internal error" not in err and "Traceback" not in err
+    assert time.monotonic() - t0 < 10  # refused before any connection attempt
+
+
+def test_thresholds_file_that_is_not_utf8_is_one_line_error_exit_2(lines, tmp_path, capsys):
+    # issue 15 item 14: TOML is UTF-8 (TOML v1.0.0 specification); Latin-1 "é" is byte 0xE9
+    bad = tmp_path / "t.toml"
+    bad.write_bytes("# caf\u00e9\n[thresholds]\n".encode("latin-1"))
+    code = main(["batch", str(lines / "gentle_ramp.sgy"), "--out", str(tmp_path / "o"), "--thresholds", str(bad),
+                 "--quiet", "--no-plot", "--workers", "1"])
+    err = capsys.readouterr().err
+    assert code == 2
+    assert err == (f"clinometry: error: {bad}: not UTF-8 text (byte 5: invalid continuation byte); "
+                   "TOML files are UTF-8: save it as UTF-8\n")

@@ -221,3 +221,45 @@ def test_horizon_rows_take_their_depths_from_the_result():
     bare = Result(source={}, velocity={}, picks=picks, metrics=Metrics())
     text = csv_text(horizon_rows(bare, sec), HORIZON_COLUMNS)
     assert text.splitlines()[1] == "3,reflector,1,12.5,112.5,50.0,400.0,,1.0"
+
+
+@pytest.mark.parametrize("text, expected", [
+    # the leading-quote rule against CSV formula injection (OWASP, "CSV Injection", from memory)
+    ("=HYPERLINK(\"http://x\")", "'=HYPERLINK(\"http://x\")"),
+    ("+1+1", "'+1+1"), ("-2+3", "'-2+3"), ("@SUM(A1)", "'@SUM(A1)"), ("\tx", "'\tx"), ("\rx", "'\rx"),
+    ("line_07.sgy", "line_07.sgy"), ("", ""),
+    ("-", "-"), ("+", "+"),  # the basin side of a margin holds no formula (common practice, no source)
+])
+def test_neutralise_formula_puts_an_apostrophe_before_formula_starts(text, expected):
+    from clinometry.report.tables import neutralise_formula
+
+    assert neutralise_formula(text) == expected
+
+
+def test_every_csv_writer_neutralises_formula_cells_but_keeps_numbers(tmp_path):
+    # issue 15 item 12: a file name and a message that start like a formula
+    from clinometry.report.review import read_review, write_review_csv
+    from clinometry.report.tables import HORIZON_COLUMNS, write_csv
+
+    write_errors_csv([{"file": "=cmd|' /C calc'!A0.sgy", "line": "", "error_type": "SegyReadError",
+                       "message": "@evil: truncated"}], tmp_path / "errors.csv")
+    back = list(csv.DictReader(io.StringIO((tmp_path / "errors.csv").read_text())))[0]
+    assert (back["file"], back["message"]) == ("'=cmd|' /C calc'!A0.sgy", "'@evil: truncated")
+    rows = margin_rows(_result(), file="+file.sgy", line="-7", stem="a")
+    write_margins_csv(rows, tmp_path / "margins.csv")
+    back = list(csv.DictReader(io.StringIO((tmp_path / "margins.csv").read_text())))
+    assert [(r["file"], r["line"], r["direction"]) for r in back] == [("'+file.sgy", "'-7", r["direction"])
+                                                                    for r in rows]
+    write_csv([{"horizon_id": 0, "role": "=x", "trace": 1, "distance_m": -5.0, "x": -1.5, "y": 0.0, "z": 4.0,
+                "depth_m": 5.0, "quality": 1.0}], tmp_path / "h.csv", HORIZON_COLUMNS)
+    back = list(csv.DictReader(io.StringIO((tmp_path / "h.csv").read_text())))[0]
+    assert (back["role"], back["distance_m"], back["x"]) == ("'=x", "-5.0", "-1.5")  # numbers stay numbers
+    decision = {"file": "=a.sgy", "line": "", "direction": "-", "decision": "accept", "note": "-looks fine",
+                "reviewer": "@me", "time": "", "stem": "a", "break_trace": None, "break_depth_m": None,
+                "toe_trace": None, "toe_depth_m": None}
+    write_review_csv([decision], tmp_path / "review.csv")
+    text = (tmp_path / "review.csv").read_text()
+    assert "'=a.sgy" in text and "'-looks fine" in text and "'@me" in text
+    again = read_review(tmp_path / "review.csv")[0]  # the apostrophe is taken off when read back
+    assert (again["file"], again["note"], again["reviewer"], again["direction"]) == ("=a.sgy", "-looks fine",
+                                                                                     "@me", "-")

@@ -74,7 +74,22 @@ def _as_dict(result):
     return result.to_dict() if hasattr(result, "to_dict") else dict(result)
 
 
+def literal_text(fig):
+    """Switch matplotlib's math text off for every text of ``fig`` (names and messages are shown as written).
+
+    A file name such as ``a$b$.sgy`` would otherwise be parsed as math text
+    and could fail to draw; clinometry's own labels use no math text.
+    Returns ``fig``.
+    """
+    from matplotlib.text import Text
+
+    for t in fig.findobj(Text):
+        t.set_parse_math(False)
+    return fig
+
+
 def _save(fig, path):
+    literal_text(fig)
     buf = io.BytesIO()
     fig.savefig(buf, format="png", dpi=110)
     return atomic_write(path, buf.getvalue())

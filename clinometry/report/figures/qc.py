@@ -21,6 +21,7 @@ import numpy as np
 from .._text import DEFAULT_VELOCITY_FLAG, user_text, velocity_text
 from ..tables import margin_percentile, margin_value
 from ._style import (
+    literal_text,
     _BREAK_STYLE,
     _FONT_SIZE,
     _REJECTED_STYLE,
@@ -355,6 +356,7 @@ def qc_figure(result, section, path, *, horizons=None, title=None):
                    title_fontsize=9, alignment="left")
 
     # vertical exaggeration of the section panel
+    literal_text(fig)
     fig.canvas.draw()
     bbox = ax.get_window_extent().transformed(fig.dpi_scale_trans.inverted())
     m_per_z = _m_per_z(res, section)
