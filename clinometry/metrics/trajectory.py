@@ -49,23 +49,25 @@ Recipes, ch. 15; from memory) with ``sum(r^2) / n`` replaced by the robust
 ``angle_p10_deg`` / ``angle_p90_deg`` (normal, +-1.2816 sigma, the same
 P10/P90 as the other uncertainties).
 
-The class is ``flat`` when ``|angle_deg| <= flat_band_deg`` with
+The class follows from the P10-P90 interval of the angle, not from the
+point estimate, against the flat band ``+-flat_deg``
+(:data:`~clinometry.definitions.TRAJECTORY_FLAT_DEG`, 2 deg: about 35 m of
+rise or fall over 1 km of progradation, close to the depth error of breaks
+picked on seismic; our choice, part of the threshold table of
+:mod:`clinometry.classify.thresholds`):
 
-    flat_band_deg = max(flat_tolerance_deg, half-width of the P10-P90 range)
+* ``ascending`` where the whole interval lies above the band, ``descending``
+  where it lies below it, ``flat`` where it lies within it;
+* ``flat_or_ascending`` / ``flat_or_descending`` where it straddles one edge
+  of the band;
+* ``unresolved`` where it spans the whole band: the breaks do not tell.
 
-where the half-width is ``1.2816`` times the a-priori error (normal) or,
-when larger, ``t_0.9(n - 2)`` times the a-posteriori error (Student's t
-with n - 2 degrees of freedom, as an error estimated from the scatter of n
-points about a line; Student 1908, from memory);
-
-and otherwise ``ascending`` or ``descending`` by its sign: *flat* means that
-the breaks show no rise or fall that the picks can resolve (the P10-P90
-range of the angle includes zero), never a sign read off pick noise;
-``sign_resolved`` and ``class_reason`` say which case applies.  The
-tolerance :data:`~clinometry.definitions.TRAJECTORY_FLAT_DEG` (0.1 deg, chosen here: about one depth
-sample over 1.5 km of progradation) is part of the threshold table of
-:mod:`clinometry.classify.thresholds` and can be overridden there; the
-classes by sign follow Helland-Hansen & Martinsen (1996).
+``sign_resolved`` and ``class_reason`` say which case applies; the classes
+by sign follow Helland-Hansen & Martinsen (1996).  The half-width of the
+interval is ``1.2816`` times the a-priori error (normal) or, when larger,
+``t_0.9(n - 2)`` times the a-posteriori error (Student's t with n - 2
+degrees of freedom, as an error estimated from the scatter of n points
+about a line; Student 1908, from memory).
 
 Where the picker followed two or more older clinoforms through the dip
 field (:mod:`clinometry.picking.clinoforms`, ``source == "dip_field"``), only
