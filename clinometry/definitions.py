@@ -29,6 +29,8 @@ __all__ = [
     "TRAJECTORY_FLAT_DEG",
     "slope_base_length_m",
     "pick_scatter_m",
+    "pick_sigma_m",
+    "slope_noise_gradient",
     "foreset_slope_deg",
     "theil_sen_line",
 ]
@@ -104,9 +106,42 @@ def slope_base_length_m(trace_spacing_m: float, depth_sample_m: float | None, me
     342.0
     """
     g = mean_gradient if mean_gradient is not None and mean_gradient > 0 else np.tan(np.radians(SLOPE_QUANTUM_DEG))
-    sigma = max(float(depth_sample_m or 0.0) / np.sqrt(12.0), float(pick_scatter_m or 0.0))
+    sigma = pick_sigma_m(depth_sample_m, pick_scatter_m)
     noise = (sigma * np.sqrt(12.0 * trace_spacing_m) / (SLOPE_PRECISION_FRACTION * g)) ** (2.0 / 3.0)
     return float(max(BASE_LENGTH_TRACES * float(trace_spacing_m), noise))
+
+
+def pick_sigma_m(depth_sample_m, pick_scatter_m=0.0) -> float:
+    """Depth error (m) of one pick: the larger of one sample's quantisation and the measured scatter.
+
+    The quantisation error of rounding to a grid of step ``dz`` is uniform,
+    with standard deviation ``dz / sqrt(12)`` (e.g. Press et al. 2007, from
+    memory).
+
+    Examples
+    --------
+    >>> round(pick_sigma_m(2.5, 0.2), 3)
+    0.722
+    """
+    return float(max(float(depth_sample_m or 0.0) / np.sqrt(12.0), float(pick_scatter_m or 0.0)))
+
+
+def slope_noise_gradient(sigma_m: float, base_m: float, trace_spacing_m: float) -> float:
+    """Standard error of a least-squares gradient over one base, from picks one trace apart.
+
+    ``sigma / sqrt(sum (x - mean x)^2)`` with ``N = base / dx + 1`` evenly
+    spaced picks, ``sum (x - mean x)^2 = dx^2 N (N^2 - 1) / 12`` (the standard
+    error of a fitted slope, e.g. Press et al. 2007, from memory).
+
+    Examples
+    --------
+    >>> round(slope_noise_gradient(1.0, 100.0, 25.0), 4)   # 5 picks
+    0.0126
+    """
+    if not sigma_m or sigma_m <= 0 or trace_spacing_m <= 0:
+        return 0.0
+    n = max(2.0, float(base_m) / float(trace_spacing_m) + 1.0)
+    return float(sigma_m / (trace_spacing_m * np.sqrt(n * (n * n - 1.0) / 12.0)))
 
 
 def pick_scatter_m(depth_m) -> float:
@@ -140,7 +175,7 @@ def _interp_rows(x0, step, ds, pos):
     return lo * (1 - w) + hi * w
 
 
-def foreset_slope_deg(xs, ds, lo_m, hi_m, base_m, *, quantile: float | None = None):
+def foreset_slope_deg(xs, ds, lo_m, hi_m, base_m, *, quantile: float | None = None, noise_gradient: float = 0.0):
     """Maximum foreset slope: the steep end of the least-squares dips over a base length within ``[lo_m, hi_m]``.
 
     A straight line is fitted (least squares) to the profile over every
@@ -170,6 +205,14 @@ def foreset_slope_deg(xs, ds, lo_m, hi_m, base_m, *, quantile: float | None = No
         Base length; rounded to a whole number of grid steps (at least 2).
     quantile : float, optional
         Default :data:`SLOPE_MAX_QUANTILE`; 1 gives the steepest fit.
+    noise_gradient : float, optional
+        Standard error of one fitted gradient from the pick scatter
+        (:func:`slope_noise_gradient`; 0 for an exact surface).  Noise
+        widens the spread of the fitted dips, so their ``q`` quantile along
+        the straight part of a foreset, where the true dip is nearly
+        constant, exceeds it by ``z_q`` standard errors (``z_q`` the normal
+        quantile, 0.84 at q = 0.8); that excess is taken off (for ``q`` < 1),
+        and the result is still never below the mean slope.
 
     Returns
     -------
@@ -213,6 +256,10 @@ def foreset_slope_deg(xs, ds, lo_m, hi_m, base_m, *, quantile: float | None = No
         # rows with no window inside get zeros (no all-NaN quantile), then -inf
         safe = np.where(has[..., None], vals, 0.0)
         best = np.where(has, np.nanquantile(safe, q, axis=-1), -np.inf)
+        if noise_gradient and 0.0 < q < 1.0:
+            from statistics import NormalDist
+
+            best = best - NormalDist().inv_cdf(q) * float(noise_gradient)
     lo_b, hi_b = np.broadcast_to(lo, shape), np.broadcast_to(hi, shape)
     dd = np.broadcast_to(ds, shape + (n,))
     with np.errstate(invalid="ignore", divide="ignore"):

@@ -116,3 +116,38 @@ def test_theil_sen_line_matches_scipy_and_a_hand_example():
     # four points on y = 1 + 0.5 x and one wild point: the median of the ten pairwise slopes
     # is 0.5 (worked by hand)
     assert definitions.theil_sen_line([0, 1, 2, 3, 4], [1.0, 1.5, 2.0, 2.5, -9.0])[0] == 0.5
+
+
+def test_slope_noise_gradient_is_the_standard_error_of_a_fitted_slope():
+    # standard error of a least-squares slope, sigma / sqrt(sum (x - xbar)^2)
+    # (Press et al. 2007, Numerical Recipes 15.2, from memory), checked against
+    # the scatter of slopes fitted to many noisy straight lines
+    rng = np.random.default_rng(0)
+    dx, base, sigma = 25.0, 100.0, 2.0
+    x = np.arange(0.0, base + dx / 2, dx)
+    fits = [np.polyfit(x, 0.3 * x + sigma * rng.standard_normal(x.size), 1)[0] for _ in range(20000)]
+    expected = sigma / np.sqrt(np.sum((x - x.mean()) ** 2))
+    assert definitions.slope_noise_gradient(sigma, base, dx) == pytest.approx(expected, rel=1e-12)
+    # 20 000 draws: the sample standard deviation is within about 1 % (2 sigma of its own error)
+    assert np.std(fits) == pytest.approx(expected, rel=0.02)
+    assert definitions.slope_noise_gradient(0.0, base, dx) == 0.0
+
+
+def test_max_slope_of_noisy_picks_is_debiased_to_the_exact_surface():
+    # a planar 20 deg foreset: on the exact surface every fitted dip is 20 deg;
+    # pick noise spreads the fitted dips, so their 80th percentile reads
+    # steeper by about 0.84 standard errors (normal quantile) unless debiased
+    dx, sigma = 12.5, 3.0
+    xs = np.arange(0.0, 3000.0 + dx / 2, dx)
+    exact = np.clip((xs - 1000.0) * np.tan(np.radians(20.0)), 0.0, 1000.0 * np.tan(np.radians(20.0)))
+    lo, hi = 1000.0, 2000.0
+    base = 75.0
+    assert float(definitions.foreset_slope_deg(xs, exact, lo, hi, base)) == pytest.approx(20.0, abs=1e-9)
+    rng = np.random.default_rng(1)
+    noisy = exact[None, :] + sigma * rng.standard_normal((400, xs.size))
+    se = definitions.slope_noise_gradient(sigma, base, dx)
+    raw = definitions.foreset_slope_deg(xs, noisy, lo, hi, base)
+    fixed = definitions.foreset_slope_deg(xs, noisy, lo, hi, base, noise_gradient=se)
+    g = np.tan(np.radians(20.0))
+    assert np.median(np.tan(np.radians(raw))) - g == pytest.approx(0.8416 * se, rel=0.15)
+    assert abs(np.median(np.tan(np.radians(fixed))) - g) < 0.15 * se

@@ -31,6 +31,11 @@ slope_max_deg
     (:func:`clinometry.definitions.foreset_slope_deg`).  This is what an
     interpreter reads as "the maximum foreset slope": the dip of the steep,
     straight part of the foreset, not of single-trace wiggles of the picks.
+    Pick scatter widens the spread of the fitted dips, so their 80th
+    percentile would read steeper than the surface by about 0.84 standard
+    errors of one fit; that excess, from the measured scatter
+    (:func:`slope_noise_for`, :func:`clinometry.definitions.slope_noise_gradient`),
+    is taken off, and the result is never below the mean slope.
     A margin narrower than ``L`` is measured by the least-squares line from
     break to toe.  When break or toe is missing (a ramp), the window runs to
     the end of the profile and ``slope_window`` says so.
@@ -65,7 +70,7 @@ import logging
 import numpy as np
 
 from ..definitions import (BASE_LENGTH_TRACES, SLOPE_QUANTUM_DEG, _interp_rows, foreset_slope_deg, pick_scatter_m,
-                           slope_base_length_m)
+                           slope_base_length_m, slope_noise_gradient)
 
 __all__ = [
     "FLANK_LENGTH_TRACES",
@@ -144,6 +149,25 @@ def base_length_m_for(geometry, base_length_m=None, *, surface=None) -> float:
                                pick_scatter_m=pick_scatter_m(surf.depth_m[keep]))
 
 
+def slope_noise_for(geometry, base_m, *, surface=None) -> float:
+    """Standard error of one fitted gradient of the max-slope measure on a margin geometry.
+
+    :func:`clinometry.definitions.slope_noise_gradient` of the measured
+    scatter of the picks between break and toe
+    (:func:`clinometry.definitions.pick_scatter_m`) over ``base_m`` at the
+    geometry's trace spacing: the noise actually in the picks, 0 on an exact
+    surface (the base length, by contrast, allows for at least one depth
+    sample of error).
+    """
+    surf = surface if surface is not None else geometry.profile
+    keep = np.ones(len(surf), bool)
+    if surf.shelf_break:
+        keep &= surf.basinward_m >= surf.shelf_break["basinward_m"] - 1e-9
+    if surf.toe:
+        keep &= surf.basinward_m <= surf.toe["basinward_m"] + 1e-9
+    return slope_noise_gradient(pick_scatter_m(surf.depth_m[keep]), base_m, geometry.trace_spacing_m)
+
+
 def grid_surface(surface, step_m: float):
     """Resample a surface onto a uniform basinward grid.
 
@@ -212,7 +236,7 @@ def _foreset(geometry, surface, base_length_m, label):
         for k in ("slope_max_deg", "slope_mean_deg", "relief_m", "foreset_width_m"):
             missing[k] = reason
         return values, missing, window
-    smax = float(foreset_slope_deg(xs, ds, lo, hi, base_m))
+    smax = float(foreset_slope_deg(xs, ds, lo, hi, base_m, noise_gradient=slope_noise_for(geometry, base_m, surface=surface)))
     if np.isfinite(smax):
         values["slope_max_deg"] = smax
     else:

@@ -44,7 +44,7 @@ import numpy as np
 
 from ..depth import to_depth
 from ..definitions import _interp_rows, foreset_slope_deg
-from .slope import base_length_m_for, grid_surface
+from .slope import base_length_m_for, grid_surface, slope_noise_for
 
 __all__ = ["UNCERTAINTY_DEFAULTS", "uncertainty_settings", "propagate"]
 
@@ -210,7 +210,7 @@ def propagate(geometry, *, settings: dict, section=None, velocity=None, base_len
     dd = base_depth + field
 
     out = {}
-    smax = foreset_slope_deg(xs, dd, b_pos, t_pos, base)
+    smax = foreset_slope_deg(xs, dd, b_pos, t_pos, base, noise_gradient=slope_noise_for(geometry, base))
     out["slope_max_deg"] = _percentiles(smax)
     if brk is not None:
         d_brk = _interp_rows(xs[0], step, dd, b_pos) + f * b_off

@@ -56,11 +56,7 @@ def _check(section, truth_margin, picks, metrics, *, check_slope=True):
     ],
 )
 @pytest.mark.parametrize("snr", [None, 3.0])
-def test_forward_model_margin_within_targets(scenario, snr, request):
-    if (scenario, snr) == ("rimmed_shelf", 3.0):
-        # not met (issue 12), measured 2026-12-04: max slope 22.0 deg against the truth's 20.0
-        request.applymarker(pytest.mark.xfail(strict=False, reason="rimmed_shelf at SNR 3: slope 22.0 against "
-                                              "20.0 deg, just beyond the 2 deg target"))
+def test_forward_model_margin_within_targets(scenario, snr):
     section, truth, picks, metrics = _run(scenario, snr=snr, seed=0) if snr else _run(scenario, noise=False, seed=0)
     assert len(truth["margins"]) == 1
     _check(section, truth["margins"][0], picks, metrics)
