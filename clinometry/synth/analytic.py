@@ -41,7 +41,7 @@ from .bodies import Layers, Margin, Mounds, Ramp
 from .conditions import apply_conditions, check_dead_traces, describe_conditions, noise_wavelet
 from .fill import ToeSubsidence, lay_fill
 from .growth import FACIES
-from .records import TRUTH_SCHEMA_VERSION, _point, clinoform_rows, line_geometry, margin_record, truth_definitions
+from .truth_records import TRUTH_SCHEMA_VERSION, _point, clinoform_rows, line_geometry, margin_record, truth_definitions
 from .seismic import SynthVelocity, bandlimited_noise, render
 from .truth import profile_margin
 

@@ -19,7 +19,7 @@ import xarray as xr
 
 from ..errors import GeometryError
 from .growth import GrowthParameters, grow
-from .records import margins_truth
+from .truth_records import margins_truth
 from .seismic import SynthVelocity, bandlimited_noise, render, ricker
 from ..definitions import BASE_LENGTH_TRACES, SLOPE_MAX_QUANTILE
 from .truth import SMOOTHING_M, TRAJECTORY_FLAT_DEG

@@ -23,7 +23,7 @@ from ..errors import GeometryError
 from ..section import make_section
 from .conditions import apply_conditions, check_dead_traces, describe_conditions, noise_wavelet
 from .growth import grow
-from .records import (TRUTH_SCHEMA_VERSION, clinoform_rows, line_geometry, margin_record, margins_truth,
+from .truth_records import (TRUTH_SCHEMA_VERSION, clinoform_rows, line_geometry, margin_record, margins_truth,
                       truth_definitions)
 from .scenarios import Scenario, get_scenario
 from .seismic import SynthVelocity, render
