@@ -34,7 +34,7 @@ from pathlib import Path
 from ..errors import ClinometryError, GeometryError
 from ..io.sniff import SEGY_SUFFIXES, has_segy_suffix
 from ..pipeline import AnalysisOptions
-from ..report.atomic import safe_name
+from ..report.atomic import safe_name, same_file
 
 __all__ = [
     "Task",
@@ -472,19 +472,12 @@ def _remove_outputs(task, out_dir, protect=()):
     keep = [task.path, *protect]
     for name in output_names(task.stem, plot=True).values():
         target = os.path.join(out_dir, name)
-        if any(_same_file(target, k) for k in keep):
+        if any(same_file(target, k) for k in keep):
             continue
         try:
             os.unlink(target)
         except FileNotFoundError:
             pass
-
-
-def _same_file(a, b) -> bool:
-    try:
-        return os.path.samefile(a, b)
-    except (OSError, ValueError):
-        return False
 
 
 def run_task(task, options) -> dict:

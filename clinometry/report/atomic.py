@@ -19,7 +19,7 @@ import re
 import tempfile
 from pathlib import Path
 
-__all__ = ["atomic_write", "safe_name"]
+__all__ = ["atomic_write", "safe_name", "same_file"]
 
 _SAFE = re.compile(r"[^A-Za-z0-9._-]+")
 
@@ -103,3 +103,11 @@ def safe_name(text, *, default: str = "line") -> str:
     s = re.sub(r"_+", "_", s).strip("._-")
     s = s[:120].rstrip("._-")
     return s or default
+
+
+def same_file(a, b) -> bool:
+    """Whether two paths name the same file (False when either cannot be read)."""
+    try:
+        return os.path.samefile(a, b)
+    except (OSError, ValueError):
+        return False

@@ -15,19 +15,12 @@ import warnings
 from pathlib import Path
 
 from ..errors import ClinometryError, FigureWarning
-from .atomic import atomic_write, safe_name
+from .atomic import atomic_write, safe_name, same_file
 from .tables import HORIZON_COLUMNS, horizon_rows, write_csv
 
 __all__ = ["write_line_files", "check_no_input_replaced"]
 
 logger = logging.getLogger(__name__)
-
-
-def _same_file(a, b) -> bool:
-    try:
-        return os.path.samefile(a, b)
-    except (OSError, ValueError):
-        return False
 
 
 def check_no_input_replaced(targets, inputs) -> None:
@@ -56,7 +49,7 @@ def check_no_input_replaced(targets, inputs) -> None:
     """
     inputs = [os.fspath(i) for i in inputs if i]
     for t in targets:
-        if t is not None and os.path.lexists(t) and any(_same_file(t, i) for i in inputs):
+        if t is not None and os.path.lexists(t) and any(same_file(t, i) for i in inputs):
             raise ClinometryError(f"{t}: this output would replace the input file {t}; write the results to "
                                   "another folder (--out) or rename the input")
 
