@@ -214,3 +214,19 @@ def test_qc_long_text_panel_stays_above_the_next_margin_and_lists_a_shared_reaso
     below = next(ax for ax in fig.axes if ax.get_title(loc="left").startswith("Margin 2:"))
     # display coordinates, y up: the text's bottom edge is above the top of the next plot with its title
     assert text.get_window_extent(renderer).y0 > below.get_tightbbox(renderer).y1
+
+
+@pytest.mark.parametrize("families", [["rimmed_shelf"], ["ramp", "rimmed_shelf", "steep_margin"]])
+def test_summary_title_fits_the_figure_and_clears_the_panels(families):
+    # one family makes a 6 in figure, narrower than the one-line title was (cut on both sides)
+    from clinometry.report.figures.overview import summary_axes
+
+    rows = [{"family": f, "slope_max_deg": s, "relief_m": 100.0 + s} for f in families for s in (1.0, 2.0, 3.0)]
+    fig = summary_axes(rows)
+    fig.canvas.draw()
+    renderer = fig.canvas.get_renderer()
+    head = fig.get_suptitle()
+    assert head.replace("\n", " ").endswith("each family on its own scale")
+    box = fig._suptitle.get_window_extent(renderer)
+    assert box.x0 >= 0 and box.x1 <= fig.bbox.x1 and box.y1 <= fig.bbox.y1
+    assert all(ax.get_tightbbox(renderer).y1 < box.y0 for ax in fig.axes)  # no panel title under it
