@@ -227,6 +227,9 @@ _JS = r"""
         if(!rec.decision) return;
         rec.cand=byKey[keyOf(rec.file,rec.line,rec.direction)]||[];
         if(!rec.cand.length){miss++; return;}
+        // files of one name in two folders: a decision naming the output stem of one is for that one only
+        var st=rec.stem||'', own=rec.cand.filter(function(x){return x.getAttribute('data-stem')===st;});
+        if(st&&own.length) rec.cand=own;
         rec.p={bt:rec.break_trace,bd:rec.break_depth_m,tt:rec.toe_trace,td:rec.toe_depth_m}; recs.push(rec);});
       function put(r,rec){stored[r.getAttribute('data-key')]={decision:rec.decision,note:rec.note||'',
         reviewer:rec.reviewer||'',time:rec.time||new Date().toISOString(),bt:rec.p.bt,bd:rec.p.bd,tt:rec.p.tt,

@@ -15,9 +15,11 @@ A margin is matched to a decision by file name, line and basin side, and
 each decision goes to one margin: where a line has several margins facing
 the same way, to the one with the reviewed picks, else to the nearest by
 break and toe trace (a decision nearest to a margin already decided on its
-present picks is an older one and is left out).  A decision holds for the margin only while its picks stay where they were
-reviewed: the same break and toe traces and depths within
-:data:`DEPTH_TOLERANCE_M`.  Where they moved (a new picker, another
+present picks is an older one and is left out).  Where two files share a
+name (``a/x.sgy``, ``b/x.sgy``), a decision naming the output stem of one
+of them is for that one only.  A decision holds for the margin only while
+its picks stay where they were reviewed: the same break and toe traces and
+depths within :data:`DEPTH_TOLERANCE_M`.  Where they moved (a new picker, another
 velocity) the margin is "changed since review": the old decision and note
 are shown, but the margin is not counted as accepted until it is reviewed
 again.
@@ -269,8 +271,12 @@ def apply_review(rows, decisions) -> list:
     for key, idx in rows_by_key.items():
         found = by_key.get(key, [])
         used = set()
+        # files of one name in two folders (a/x.sgy, b/x.sgy): a decision naming the output stem of one
+        # of them is for that one only
+        stems = {str(rows[j].get("stem") or "") for j in idx} - {""}
+        fits = {(k, j): _fits(found[k], rows[j], stems) for k in range(len(found)) for j in idx}
         for i in idx:  # a decision made on these very picks, the latest one
-            exact = [k for k, d in enumerate(found) if _same_picks(d, rows[i])]
+            exact = [k for k, d in enumerate(found) if fits[k, i] and _same_picks(d, rows[i])]
             if exact:
                 chosen[i] = (found[exact[-1]], True)
                 used.update(exact)
@@ -281,7 +287,10 @@ def apply_review(rows, decisions) -> list:
         for k, d in enumerate(found):
             if k in used:
                 continue
-            i = min(idx, key=lambda j: _pick_distance(d, rows[j]))
+            near = [j for j in idx if fits[k, j]]
+            if not near:
+                continue
+            i = min(near, key=lambda j: _pick_distance(d, rows[j]))
             if i in chosen:
                 continue
             rank = (_pick_distance(d, rows[i]), -k)
@@ -302,6 +311,12 @@ def apply_review(rows, decisions) -> list:
                      review_picks={c: d.get(c) for c in _PICK_COLUMNS})
         out.append(r)
     return out
+
+
+def _fits(decision, row, stems) -> bool:
+    """Whether a decision may be for this margin: it names no stem of the run's margins, or this one's."""
+    own = str(decision.get("stem") or "")
+    return own not in stems or own == str(row.get("stem") or "")
 
 
 def _pick_distance(decision, row) -> tuple:

@@ -111,6 +111,15 @@ def test_each_decision_goes_to_one_margin_where_a_line_has_several_facing_the_sa
     assert [g["review_status"] for g in got] == ["accepted", "", ""]
 
 
+def test_files_of_one_name_in_two_folders_keep_their_own_decisions():
+    # a/line_a.sgy and b/line_a.sgy (outputs a_line_a, b_line_a), copies with the same picks
+    rows = [_row(file="/s/a/line_a.sgy", stem="a_line_a"), _row(file="/s/b/line_a.sgy", stem="b_line_a")]
+    got = apply_review(rows, [_decision(stem="b_line_a", note="b only")])
+    assert [g["review_status"] for g in got] == ["", "accepted"]
+    # a decision from before the names clashed (stem line_a, no margin has it now) still finds its margin
+    assert [g["review_status"] for g in apply_review(rows[:1], [_decision(stem="line_a")])] == ["accepted"]
+
+
 def test_later_review_wins_for_the_same_margin_and_picks():
     merged = merge_decisions([_decision("accept")], [_decision("needs-work", note="check the toe")])
     assert [(d["decision"], d["note"]) for d in merged] == [("needs-work", "check the toe")]
