@@ -112,23 +112,57 @@ _KEYWORD_VALUE = re.compile(r"(?<![\w-])([a-z][a-z_]*)=([0-9][\w.-]*)")
 BROKEN_PIPE_STATUS = 128 + 13
 
 
-def cli_message(err) -> str:
+def _names_out(name, out, inputs=()) -> bool:
+    """Whether an OS error's path is ``--out`` itself or a folder above it, and not one of the inputs."""
+    try:
+        path, target = os.path.abspath(os.fspath(name)), os.path.abspath(os.fspath(out))
+        if any(os.path.abspath(os.fspath(i)) == path for i in inputs if i):
+            return False
+    except (TypeError, ValueError):
+        return False
+    return path == target or target.startswith(path.rstrip(os.sep) + os.sep)
+
+
+def _out_message(err, name, out) -> str:
+    """An OS error on the ``--out`` path, said as a problem with that option."""
+    if isinstance(err, FileExistsError) and os.path.abspath(name) == os.path.abspath(out):
+        return f"--out {out}: is a file, not a folder; give --out a folder (it is made when missing)"
+    parent = os.path.dirname(os.path.abspath(name))
+    if isinstance(err, FileNotFoundError) and os.path.abspath(name) == os.path.abspath(out) \
+            and not os.path.isdir(parent):
+        return f"--out {out}: the folder it goes in ({parent}) does not exist; make it first or give another --out"
+    if isinstance(err, NotADirectoryError):
+        return f"--out {out}: a part of that path is a file, not a folder; give --out a folder"
+    why = (err.strerror or type(err).__name__).lower()
+    return f"--out {out}: cannot be written ({why}: {name}); give --out a place you can write to"
+
+
+def cli_message(err, *, out=None, inputs=()) -> str:
     """An exception's message as the command line says it (one line).
 
     Python-API keywords become the command line's option names
     (``inline=`` -> ``--inline``); keywords with no option are named once
-    with where to find them; a missing file is "file not found: PATH".
+    with where to find them; a missing file is "file not found: PATH".  An
+    OS error on the ``out`` path (the ``--out`` option) or a folder above it
+    is said as a problem with ``--out``, unless that path is one of the
+    ``inputs``.
 
     Examples
     --------
     >>> cli_message(FileNotFoundError(2, "No such file or directory", "line_07.sgy"))
     'file not found: line_07.sgy'
+    >>> cli_message(FileExistsError(17, "File exists", "results"), out="results")
+    '--out results: is a file, not a folder; give --out a folder (it is made when missing)'
+    >>> cli_message(PermissionError(13, "Permission denied", "/srv"), out="/srv/results")
+    '--out /srv/results: cannot be written (permission denied: /srv); give --out a place you can write to'
     >>> cli_message(ValueError("a.sgy: 2D file; read it without inline=, or point header_bytes= at the fields"))
     'a.sgy: 2D file; read it without --inline, or point header_bytes at the fields (header_bytes: no \
 command-line option; pass it to clinometry.read_section in Python)'
     """
     if isinstance(err, OSError) and not isinstance(err, ClinometryError) and getattr(err, "filename", None):
         name = os.fspath(err.filename)
+        if out is not None and _names_out(name, out, inputs):
+            return _out_message(err, name, out)
         if isinstance(err, FileNotFoundError):
             return f"file not found: {name}"
         if isinstance(err, IsADirectoryError):
@@ -194,7 +228,8 @@ def main(argv=None) -> int:
     except BrokenPipeError:
         return _quiet_broken_pipe()
     except (ClinometryError, OSError) as err:
-        return _error(err, debug, cli_message(err))
+        inputs = [getattr(args, "file", None), *(getattr(args, "paths", None) or [])]
+        return _error(err, debug, cli_message(err, out=getattr(args, "out", None), inputs=inputs))
     except KeyboardInterrupt:
         print("clinometry: error: interrupted", file=sys.stderr)
         return 2

@@ -11,7 +11,9 @@ trajectory).  Scenarios are invented settings; ``--list`` shows them.
 
 from __future__ import annotations
 
+import contextlib
 import logging
+import os
 
 from ..errors import GeometryError
 from ..synth import ALL_SCENARIOS, ANALYTIC_SCENARIOS, GROUPS, SCENARIOS, make_cube, make_line, write_cube, write_line
@@ -68,6 +70,17 @@ def _list():
             _row(name, ANALYTIC_SCENARIOS[name])
 
 
+@contextlib.contextmanager
+def _naming_the_output(out):
+    """segyio's own write errors name no file: give them the ``--out`` path."""
+    try:
+        yield
+    except OSError as err:
+        if getattr(err, "filename", None) or not err.errno:
+            raise
+        raise type(err)(err.errno, err.strerror or os.strerror(err.errno), os.fspath(out)) from err
+
+
 def run(args) -> int:
     if args.list:
         _list()
@@ -85,7 +98,8 @@ def run(args) -> int:
         if args.samples:
             kw["n_samples"] = args.samples
         cube, truth = make_cube(snr=None if args.no_noise else (args.snr or 8.0), seed=args.seed, **kw)
-        sgy, js = write_cube(cube, truth, args.out, sample_format=args.format)
+        with _naming_the_output(args.out):
+            sgy, js = write_cube(cube, truth, args.out, sample_format=args.format)
         print(f"wrote {sgy} ({cube.sizes['inline']} inlines x {cube.sizes['crossline']} crosslines x {cube.sizes['z']} samples)")
         print(f"wrote {js}")
         return 0
@@ -111,7 +125,8 @@ def run(args) -> int:
         n_samples=args.samples, delay_ms=args.delay, trace_spacing_m=args.trace_spacing, azimuth_deg=args.azimuth,
         polarity_reversed=args.reverse_polarity, gain_drift_fraction=args.gain_drift,
         dead_traces=dead, noise=not args.no_noise, gain_step=gain_step, amplitude_scale=args.amplitude_scale)
-    sgy, js = write_line(sec, truth, args.out, sample_format=args.format)
+    with _naming_the_output(args.out):
+        sgy, js = write_line(sec, truth, args.out, sample_format=args.format)
     print(f"wrote {sgy} ({sec.sizes['trace']} traces x {sec.sizes['z']} samples, {args.domain}, "
           f"{len(truth['margins'])} margin(s))")
     print(f"wrote {js}")

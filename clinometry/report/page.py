@@ -220,18 +220,36 @@ _JS = r"""
     r.getAttribute('data-direction')); (byKey[k]=byKey[k]||[]).push(r);});
   document.getElementById('import').addEventListener('change',function(ev){
     var file=ev.target.files[0]; if(!file) return; var fr=new FileReader();
-    fr.onload=function(){var t=parseCsv(String(fr.result).replace(/^\ufeff/,'')), head=t.shift()||[], n=0, miss=0;
+    fr.onload=function(){var t=parseCsv(String(fr.result).replace(/^\ufeff/,'')), head=t.shift()||[], n=0, miss=0,
+        old=0, recs=[], exact={}, near={};
       t.forEach(function(cells){if(cells.length<2) return; var rec={};
         head.forEach(function(h,j){rec[h]=unq(cells[j]);});
         if(!rec.decision) return;
-        var cand=byKey[keyOf(rec.file,rec.line,rec.direction)]||[];
-        if(!cand.length){miss++; return;}
-        var p={bt:rec.break_trace,bd:rec.break_depth_m,tt:rec.toe_trace,td:rec.toe_depth_m};
-        var r=cand.filter(function(x){return same(p,picks(x));})[0]||cand[0];
-        stored[r.getAttribute('data-key')]={decision:rec.decision,note:rec.note||'',reviewer:rec.reviewer||'',
-          time:rec.time||new Date().toISOString(),bt:p.bt,bd:p.bd,tt:p.tt,td:p.td}; n++;});
+        rec.cand=byKey[keyOf(rec.file,rec.line,rec.direction)]||[];
+        if(!rec.cand.length){miss++; return;}
+        // files of one name in two folders: a decision naming the output stem of one is for that one only
+        var st=rec.stem||'', own=rec.cand.filter(function(x){return x.getAttribute('data-stem')===st;});
+        if(st&&own.length) rec.cand=own;
+        rec.p={bt:rec.break_trace,bd:rec.break_depth_m,tt:rec.toe_trace,td:rec.toe_depth_m}; recs.push(rec);});
+      function put(r,rec){stored[r.getAttribute('data-key')]={decision:rec.decision,note:rec.note||'',
+        reviewer:rec.reviewer||'',time:rec.time||new Date().toISOString(),bt:rec.p.bt,bd:rec.p.bd,tt:rec.p.tt,
+        td:rec.p.td}; n++;}
+      // as clinometry.report.review.apply_review: each decision goes to one margin, the one with the picks
+      // it was made on, else the nearest by break and toe trace unless that one has a decision on its picks
+      recs.forEach(function(rec){var r=rec.cand.filter(function(x){return same(rec.p,picks(x));})[0];
+        if(r){exact[r.getAttribute('data-key')]=1; rec.done=1; put(r,rec);}});
+      function far(a,b){var one=0,tr=0;['bt','tt'].forEach(function(k){var x=a[k],y=b[k];
+        if((x===''||x==null)!==(y===''||y==null)) one++; else if(!(x===''||x==null)) tr+=Math.abs(parseFloat(x)-parseFloat(y));});
+        return one*1e9+tr;}
+      recs.forEach(function(rec){if(rec.done) return;
+        var r=rec.cand.slice().sort(function(a,b){return far(rec.p,picks(a))-far(rec.p,picks(b));})[0],
+            k=r.getAttribute('data-key'), d=far(rec.p,picks(r));
+        if(exact[k]){old++; return;}
+        if(near[k]&&d>near[k].d){old++; return;} if(near[k]) old++; near[k]={d:d,r:r,rec:rec};});
+      Object.keys(near).forEach(function(k){put(near[k].r,near[k].rec);});
       save(stored); rows.forEach(show); counts(); filter();
-      document.getElementById('import-result').textContent=n+' decision(s) read'+(miss?', '+miss+' for margins not on this page':'');};
+      document.getElementById('import-result').textContent=n+' decision(s) read'+(miss?', '+miss+' for margins not on this page':'')
+        +(old?', '+old+' older one(s) for margins reviewed again':'');};
     fr.readAsText(file);});
   // the QC figure, large, in the page
   var viewer=document.getElementById('viewer'), vimg=document.getElementById('viewer-img');

@@ -11,10 +11,15 @@ margin of the run its review state (:func:`apply_review`) and writes
 ``margins_reviewed.csv`` with the accepted margins and their notes
 (:func:`write_reviewed_csv`).
 
-A margin is matched to a decision by file name, line and basin side.  A
-decision holds for the margin only while its picks stay where they were
-reviewed: the same break and toe traces and depths within
-:data:`DEPTH_TOLERANCE_M`.  Where they moved (a new picker, another
+A margin is matched to a decision by file name, line and basin side, and
+each decision goes to one margin: where a line has several margins facing
+the same way, to the one with the reviewed picks, else to the nearest by
+break and toe trace (a decision nearest to a margin already decided on its
+present picks is an older one and is left out).  Where two files share a
+name (``a/x.sgy``, ``b/x.sgy``), a decision naming the output stem of one
+of them is for that one only.  A decision holds for the margin only while
+its picks stay where they were reviewed: the same break and toe traces and
+depths within :data:`DEPTH_TOLERANCE_M`.  Where they moved (a new picker, another
 velocity) the margin is "changed since review": the old decision and note
 are shown, but the margin is not counted as accepted until it is reviewed
 again.
@@ -247,25 +252,83 @@ def apply_review(rows, decisions) -> list:
     'accepted'
     >>> apply_review([dict(row, break_trace=5)], [d])[0]["review_status"]
     'changed since review'
+
+    A decision goes to one margin only: on a line with two margins facing the
+    same way, the one reviewed keeps its decision and the other stays not
+    reviewed.
+
+    >>> other = dict(row, break_trace=80, toe_trace=95)
+    >>> [r["review_status"] for r in apply_review([other, row], [d])]
+    ['', 'accepted']
     """
     by_key = {}
     for d in decisions or []:
         by_key.setdefault(margin_key(d.get("file"), d.get("line"), d.get("direction")), []).append(d)
+    rows_by_key = {}
+    for i, r in enumerate(rows):
+        rows_by_key.setdefault(margin_key(r.get("file"), r.get("line"), r.get("direction")), []).append(i)
+    chosen = {}  # row index -> (decision, picks unchanged)
+    for key, idx in rows_by_key.items():
+        found = by_key.get(key, [])
+        used = set()
+        # files of one name in two folders (a/x.sgy, b/x.sgy): a decision naming the output stem of one
+        # of them is for that one only
+        stems = {str(rows[j].get("stem") or "") for j in idx} - {""}
+        fits = {(k, j): _fits(found[k], rows[j], stems) for k in range(len(found)) for j in idx}
+        for i in idx:  # a decision made on these very picks, the latest one
+            exact = [k for k, d in enumerate(found) if fits[k, i] and _same_picks(d, rows[i])]
+            if exact:
+                chosen[i] = (found[exact[-1]], True)
+                used.update(exact)
+        # every other decision was made on picks that have since moved: it belongs to the margin nearest to
+        # them by break and toe trace, unless that margin has a decision on its present picks (then it is
+        # an older one); where several point at one margin, the nearest wins, then the latest
+        best = {}
+        for k, d in enumerate(found):
+            if k in used:
+                continue
+            near = [j for j in idx if fits[k, j]]
+            if not near:
+                continue
+            i = min(near, key=lambda j: _pick_distance(d, rows[j]))
+            if i in chosen:
+                continue
+            rank = (_pick_distance(d, rows[i]), -k)
+            if i not in best or rank < best[i][0]:
+                best[i] = (rank, d)
+        for i, (_, d) in best.items():
+            chosen[i] = (d, False)
     out = []
-    for r in rows:
+    for i, r in enumerate(rows):
         r = dict(r)
-        found = by_key.get(margin_key(r.get("file"), r.get("line"), r.get("direction")), [])
-        exact = [d for d in found if _same_picks(d, r)]
-        chosen = (exact or found or [None])[-1]
-        if chosen is None:
+        d, same = chosen.get(i, (None, False))
+        if d is None:
             r.update(review_status="", decision="", note="", reviewer="", review_time="", review_picks=None)
         else:
-            r.update(review_status=REVIEW_STATES[chosen["decision"]] if exact else CHANGED,
-                     decision=chosen["decision"], note=chosen.get("note") or "",
-                     reviewer=chosen.get("reviewer") or "", review_time=chosen.get("time") or "",
-                     review_picks={c: chosen.get(c) for c in _PICK_COLUMNS})
+            r.update(review_status=REVIEW_STATES[d["decision"]] if same else CHANGED,
+                     decision=d["decision"], note=d.get("note") or "",
+                     reviewer=d.get("reviewer") or "", review_time=d.get("time") or "",
+                     review_picks={c: d.get(c) for c in _PICK_COLUMNS})
         out.append(r)
     return out
+
+
+def _fits(decision, row, stems) -> bool:
+    """Whether a decision may be for this margin: it names no stem of the run's margins, or this one's."""
+    own = str(decision.get("stem") or "")
+    return own not in stems or own == str(row.get("stem") or "")
+
+
+def _pick_distance(decision, row) -> tuple:
+    """How far a margin's picks are from those a decision was made on: (picks on one side only, traces apart)."""
+    one_sided, traces = 0, 0
+    for c in ("break_trace", "toe_trace"):
+        a, b = (None if v in (None, "") else float(v) for v in (decision.get(c), row.get(c)))
+        if (a is None) != (b is None):
+            one_sided += 1
+        elif a is not None:
+            traces += abs(a - b)
+    return one_sided, traces
 
 
 def review_counts(rows) -> dict:

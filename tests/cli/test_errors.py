@@ -81,3 +81,36 @@ def test_closed_pipe_in_process_returns_the_pipe_status(tmp_path, monkeypatch, c
     monkeypatch.setattr(sys, "stdout", Closed())
     assert main(["plugins"]) == BROKEN_PIPE_STATUS
     assert capsys.readouterr().err == ""
+
+
+def test_an_unusable_out_path_is_said_as_a_problem_with_out(tmp_path, capsys):
+    # what mkdir and open report (POSIX errno names, Python's OSError subclasses), said in the CLI's words
+    from clinometry.synth import make_line
+    from clinometry.synth.write import write_line
+
+    section, truth = make_line("gentle_ramp", seed=1)
+    line = tmp_path / "ramp.sgy"
+    write_line(section, truth, line)
+    a_file = tmp_path / "notes.txt"
+    a_file.write_text("x", encoding="utf-8")
+    cases = [
+        (["analyze", str(line), "--out", str(a_file), "--no-plot"],
+         f"--out {a_file}: is a file, not a folder; give --out a folder (it is made when missing)"),
+        (["analyze", str(line), "--out", str(a_file / "sub"), "--no-plot"],
+         f"--out {a_file / 'sub'}: a part of that path is a file, not a folder; give --out a folder"),
+        (["batch", str(line), "--out", str(a_file), "--quiet"],
+         f"--out {a_file}: is a file, not a folder; give --out a folder (it is made when missing)"),
+        # segyio's own error names no file (FileNotFoundError without a file name)
+        (["synth", "--scenario", "gentle_ramp", "--out", str(tmp_path / "none" / "x.sgy")],
+         f"--out {tmp_path / 'none' / 'x.sgy'}: the folder it goes in ({tmp_path / 'none'}) does not exist; "
+         "make it first or give another --out"),
+    ]
+    for argv, said in cases:
+        assert main(argv) == 2, argv
+        err = capsys.readouterr().err
+        assert err == f"clinometry: error: {said}\n"
+        assert "Errno" not in err
+    # a missing input is still a missing input, even where --out lies beneath it
+    missing = tmp_path / "survey"
+    assert main(["analyze", str(missing), "--out", str(missing / "results")]) == 2
+    assert capsys.readouterr().err == f"clinometry: error: file not found: {missing}\n"

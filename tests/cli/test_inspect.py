@@ -61,10 +61,13 @@ def test_inspect_missing_file(tmp_path, capsys):
 
 
 def test_console_script_inspect_json():
+    import os
     import shutil
     import subprocess
+    import sys
 
-    exe = shutil.which("clinometry")
+    # the script installed beside this Python (a venv used without activating it), else the one on the PATH
+    exe = shutil.which("clinometry", path=os.path.dirname(sys.executable)) or shutil.which("clinometry")
     if exe is None:
         pytest.skip("console script 'clinometry' is not installed in this environment")
     proc = subprocess.run([exe, "inspect", str(DATA / "segy-reference" / "f3-lsb.sgy"), "--json"],

@@ -81,8 +81,9 @@ def test_qc_figure_writes_a_png_with_section_profile_and_text(tmp_path):
     path = qc_figure(_R(_result(), picks), sec, tmp_path / "line.png")
     assert path.read_bytes()[:8] == PNG_SIGNATURE
     img = mpimg.imread(path)
-    # 13 in x (4.8 + 2.9) in at 110 dpi, one margin
-    assert img.shape[:2] == (round(7.7 * 110), 13 * 110)
+    # 13 in wide; high: section 4.8 * 0.62 + one text row 2.9 + the gap between them 1.1 + top and bottom
+    # 0.55 + 0.45 in; at 110 dpi
+    assert img.shape[:2] == (round((4.8 * 0.62 + 2.9 + 1.1 + 0.55 + 0.45) * 110), 13 * 110)
     assert float(img[..., :3].std()) > 0.05  # not a blank canvas
     np.testing.assert_array_equal(sec.values, before.values)  # input untouched
 
@@ -93,7 +94,7 @@ def test_qc_figure_line_without_margin(tmp_path):
     res["run"]["notes"] = ["no margin found on this line: flat reflectors only"]
     path = qc_figure(res, _section("depth"), tmp_path / "flat.png")
     img = mpimg.imread(path)
-    assert img.shape[:2] == (round(7.7 * 110), 13 * 110)
+    assert img.shape[:2] == (round((4.8 * 0.62 + 2.9 + 1.1 + 0.55 + 0.45) * 110), 13 * 110)
 
 
 def test_summary_and_map_figures(tmp_path):
@@ -185,3 +186,47 @@ def test_qc_velocity_note_reads_as_words():
     flagged = velocity_text({"model": "constant", "velocity_m_s": 3000.0, "default_fallback": True})
     assert flagged.startswith("velocity 3000 m/s") and "default velocity" in flagged
     assert velocity_text({"model": "none"}) == "depth section: no velocity needed"
+
+
+def test_qc_long_text_panel_stays_above_the_next_margin_and_lists_a_shared_reason_once(tmp_path, monkeypatch):
+    # a margin with a dozen values missing for one long reason (as on a real line without a distinct
+    # break), then a second margin: the first text panel must end above the second margin's plot
+    import clinometry.report.figures.qc as qc
+
+    drawn = []
+    real_save = qc._save
+    monkeypatch.setattr(qc, "_save", lambda fig, path: (drawn.append(fig), real_save(fig, path))[1])
+    res = _result()
+    why = ("no distinct shelf break: the profile bends by at most 0.052/km landward of its steepest point (a "
+           "distinct break bends by 0.1/km or more), as on a ramp")
+    first = dict(res["margins"][0], missing={f"value_{k}_deg": why for k in range(12)})
+    res["margins"] = [first, dict(res["margins"][0], direction="-")]
+    lines = qc._margin_text(first)
+    assert " ".join(s.strip() for s in lines).count("no distinct shelf break") == 1  # once, the names before it
+    assert "value_0_deg, value_1_deg" in " ".join(lines) and "value_11_deg" in " ".join(lines)
+    # twelve different reasons make a long panel, above four more margins (five, as on that real line)
+    res["margins"][0] = dict(first, missing={f"value_{k}_deg": f"{k}: {why}" for k in range(12)})
+    res["margins"] += [dict(res["margins"][1]) for _ in range(3)]
+    qc_figure(res, _section(), tmp_path / "two.png")
+    fig = drawn[0]
+    renderer = fig.canvas.get_renderer()
+    text = next(t for ax in fig.axes for t in ax.texts if t.get_text().startswith("Margin 1:"))
+    below = next(ax for ax in fig.axes if ax.get_title(loc="left").startswith("Margin 2:"))
+    # display coordinates, y up: the text's bottom edge is above the top of the next plot with its title
+    assert text.get_window_extent(renderer).y0 > below.get_tightbbox(renderer).y1
+
+
+@pytest.mark.parametrize("families", [["rimmed_shelf"], ["ramp", "rimmed_shelf", "steep_margin"]])
+def test_summary_title_fits_the_figure_and_clears_the_panels(families):
+    # one family makes a 6 in figure, narrower than the one-line title was (cut on both sides)
+    from clinometry.report.figures.overview import summary_axes
+
+    rows = [{"family": f, "slope_max_deg": s, "relief_m": 100.0 + s} for f in families for s in (1.0, 2.0, 3.0)]
+    fig = summary_axes(rows)
+    fig.canvas.draw()
+    renderer = fig.canvas.get_renderer()
+    head = fig.get_suptitle()
+    assert head.replace("\n", " ").endswith("each family on its own scale")
+    box = fig._suptitle.get_window_extent(renderer)
+    assert box.x0 >= 0 and box.x1 <= fig.bbox.x1 and box.y1 <= fig.bbox.y1
+    assert all(ax.get_tightbbox(renderer).y1 < box.y0 for ax in fig.axes)  # no panel title under it

@@ -223,3 +223,36 @@ def test_decision_on_moved_picks_shows_changed_since_review(tmp_path, browser):
     page = write_index(tmp_path / "index.html", margins=[row], lines=[], errors=[])
     browser.get(page.resolve().as_uri())
     assert _states(browser) == {"line_a": "changed since review"}
+
+
+def test_import_gives_each_decision_to_one_margin_where_a_line_has_several_facing_the_same_way(tmp_path, browser):
+    # three margins of one line facing "-"; the decisions mirror clinometry.report.review.apply_review
+    # first a copy of that line in another folder (output stem other_line_m): same name, same picks
+    rows = [{"file": "/other/line_m.sgy", "line": "", "stem": "other_line_m", "direction": "-",
+             "family": "rimmed_shelf", "confidence": 0.9, "break_trace": 75, "break_depth_m": 1000.0,
+             "toe_trace": 36, "toe_depth_m": 1200.0}]
+    for k, (bt, tt) in enumerate(((75, 36), (628, 621), (739, 723))):
+        rows.append({"file": "/survey/line_m.sgy", "line": "", "stem": "line_m", "direction": "-",
+                     "family": "rimmed_shelf", "confidence": 0.8 - k / 10, "break_trace": bt,
+                     "break_depth_m": 1000.0 + k, "toe_trace": tt, "toe_depth_m": 1200.0 + k})
+    page = write_index(tmp_path / "index.html", margins=rows, lines=[], errors=[])
+    review = tmp_path / "review.csv"
+    review.write_text(",".join(REVIEW_COLUMNS) + "\n"
+                      "line_m.sgy,,-,accept,rim,R,2026-12-04T09:00:00Z,line_m,75,1000.0,36,1200.0\n"
+                      "line_m.sgy,,-,reject,fold,R,2026-12-04T09:01:00Z,line_m,630,1001.0,621,1201.0\n",
+                      encoding="utf-8")
+    browser.get(page.resolve().as_uri())
+    from selenium.webdriver.common.by import By
+
+    browser.find_element(By.ID, "import").send_keys(str(review))
+    end = time.monotonic() + 10
+    while time.monotonic() < end and "decision(s) read" not in browser.find_element(By.ID, "import-result").text:
+        time.sleep(0.1)
+    assert browser.find_element(By.ID, "import-result").text == "2 decision(s) read"
+    states = browser.execute_script("return Array.from(document.querySelectorAll('#margins tbody tr'))"
+                                    ".map(r => [r.getAttribute('data-stem'), r.getAttribute('data-bt'), "
+                                    "r.querySelector('td.state').textContent]);")
+    # the accepted one keeps its decision, the rejected one moved 2 traces, the third was never reviewed;
+    # the copy in the other folder was not reviewed either (the decisions name the stem line_m)
+    assert sorted(states) == [["line_m", "628", "changed since review"], ["line_m", "739", "not reviewed"],
+                              ["line_m", "75", "accepted"], ["other_line_m", "75", "not reviewed"]]

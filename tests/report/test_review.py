@@ -93,6 +93,33 @@ def test_decision_holds_while_the_picks_stay_and_flags_them_once_they_moved():
                                   "not reviewed": 1}
 
 
+def test_each_decision_goes_to_one_margin_where_a_line_has_several_facing_the_same_way():
+    # a line with three margins facing "-" (as on a real line with several build-ups); one was reviewed
+    rows = [_row(direction="-", bt=75, tt=36), _row(direction="-", bt=628, tt=621), _row(direction="-", bt=739, tt=723)]
+    accepted = _decision(direction="-", bt=75, bd=150.4, tt=36, td=420.0)
+    got = apply_review(rows, [accepted])
+    assert [g["review_status"] for g in got] == ["accepted", "", ""]  # the others were never reviewed
+    assert review_counts(got)["not reviewed"] == 2
+    # picks of the second moved a little since it was rejected: only that one is flagged
+    rejected = _decision("reject", direction="-", bt=630, bd=150.4, tt=621, td=420.0, note="fold")
+    got = apply_review(rows, [accepted, rejected])
+    assert [g["review_status"] for g in got] == ["accepted", "changed since review", ""]
+    assert got[1]["note"] == "fold" and got[1]["review_picks"]["break_trace"] == 630
+    # an older decision on picks since reviewed again is left out, not handed to a neighbour
+    older = _decision("needs-work", direction="-", bt=74, bd=150.4, tt=36, td=420.0)
+    got = apply_review(rows, [older, accepted])
+    assert [g["review_status"] for g in got] == ["accepted", "", ""]
+
+
+def test_files_of_one_name_in_two_folders_keep_their_own_decisions():
+    # a/line_a.sgy and b/line_a.sgy (outputs a_line_a, b_line_a), copies with the same picks
+    rows = [_row(file="/s/a/line_a.sgy", stem="a_line_a"), _row(file="/s/b/line_a.sgy", stem="b_line_a")]
+    got = apply_review(rows, [_decision(stem="b_line_a", note="b only")])
+    assert [g["review_status"] for g in got] == ["", "accepted"]
+    # a decision from before the names clashed (stem line_a, no margin has it now) still finds its margin
+    assert [g["review_status"] for g in apply_review(rows[:1], [_decision(stem="line_a")])] == ["accepted"]
+
+
 def test_later_review_wins_for_the_same_margin_and_picks():
     merged = merge_decisions([_decision("accept")], [_decision("needs-work", note="check the toe")])
     assert [(d["decision"], d["note"]) for d in merged] == [("needs-work", "check the toe")]

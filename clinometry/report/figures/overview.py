@@ -20,6 +20,7 @@ References
 from __future__ import annotations
 
 import logging
+import textwrap
 
 import numpy as np
 
@@ -143,9 +144,13 @@ def summary_axes(rows, *, title="Margins of this run"):
             if i == 0:
                 ax.set_title(f"{f or 'unclassified'} (n={len(pts)})", fontsize=10, color=color,
                              fontweight="bold")
-    fig.suptitle(f"{title}: points are margins, bar is the median; each family on its own scale", fontsize=10)
+    # wrapped to the figure's width: with one family the figure is 6 in wide, narrower than the title
+    head = textwrap.wrap(f"{title}: points are margins, bar is the median; each family on its own scale",
+                         int(fig.get_figwidth() * 11))
+    fig.suptitle("\n".join(head), fontsize=10)
     _review_legend(fig, rows)
-    fig.tight_layout(rect=(0, 0.07, 1, 0.96))
+    # the panels start below the title: it hangs from 0.98 of the height, 0.17 in per line
+    fig.tight_layout(rect=(0, 0.07, 1, 0.98 - (0.17 * len(head) + 0.06) / fig.get_figheight()))
     return fig
 
 

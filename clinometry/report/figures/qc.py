@@ -200,8 +200,11 @@ def _margin_text(margin, number=1, width=56):
     missing = margin.get("missing") or {}
     if isinstance(missing, dict) and missing:
         lines.append("Not measured:")
+        same_reason = {}  # values missing for one reason are listed together, the reason once
         for k, why in missing.items():
-            lines.extend(_wrapped(f"{k}: {why}", width))
+            same_reason.setdefault(str(why), []).append(str(k))
+        for why, keys in same_reason.items():
+            lines.extend(_wrapped(f"{', '.join(keys)}: {why}", width))
     return lines
 
 
@@ -302,13 +305,17 @@ def qc_figure(result, section, path, *, horizons=None, title=None):
                  + ([""] + ["Candidates considered and dropped (drawn on the section as C1, C2, ...):"]
                     + _rejected_lines(rejected, dist_km, 150) if rejected else
                     ["", "The picker reported no candidate that came close to a margin."])]
-    # each lower row is as tall as its text needs (every reason is shown, wrapped), at least 2.9 in
+    # each lower row is as tall as its text needs (every reason is shown, wrapped), at least 2.9 in; the
+    # gaps between rows (titles, axis labels) are fixed in inches, so a long text panel never runs into
+    # the row below it
     row_in = [max(2.9, _TEXT_LINE_IN * (len(t) + 1)) for t in texts]
-    section_in = 4.8
-    fig = _figure((13.0, section_in + sum(row_in)))
-    gs = fig.add_gridspec(1 + len(row_in), 2, width_ratios=[2.4, 1.0], height_ratios=[section_in * 0.62] + row_in,
-                          hspace=0.42, wspace=0.06, left=0.07, right=0.97, top=1.0 - 0.55 / fig.get_figheight(),
-                          bottom=0.45 / fig.get_figheight())
+    heights = [4.8 * 0.62] + row_in
+    gap_in, top_in, bottom_in = 1.1, 0.55, 0.45
+    fig_h = sum(heights) + gap_in * (len(heights) - 1) + top_in + bottom_in
+    fig = _figure((13.0, fig_h))
+    gs = fig.add_gridspec(len(heights), 2, width_ratios=[2.4, 1.0], height_ratios=heights,
+                          hspace=gap_in / float(np.mean(heights)), wspace=0.06, left=0.07, right=0.97,
+                          top=1.0 - top_in / fig_h, bottom=bottom_in / fig_h)
     ax = fig.add_subplot(gs[0, 0])
     lax = fig.add_subplot(gs[0, 1])  # legend and notes beside the section
     lax.axis("off")
